@@ -1,0 +1,37 @@
+#!/usr/bin/env bash
+# `npm test`: installs what is missing, starts MariaDB and Redis on loopback, builds every
+# workspace and runs every test suite (engine, service e2e, browser). Prints one closing line
+# "foldfolio: N passed, N failed" and exits non-zero when anything failed.
+# Run one workspace only:   scripts/test.sh shared|service|ui   (extra args go to jest)
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+cd "$FOLDFOLIO_ROOT"
+only="${1:-}"; [ $# -gt 0 ] && shift
+
+bash scripts/ensure-deps.sh
+bash scripts/services.sh start
+log "building workspaces"
+npm run build --silent >/dev/null || { npm run build; die "build failed"; }
+
+OUT="$FOLDFOLIO_ROOT/test-output"
+mkdir -p "$OUT"
+passed=0; failed=0; status=0
+run_suite() {
+  local ws="$1"; shift
+  [ -n "$only" ] && [ "$only" != "$ws" ] && return 0
+  log "running $ws tests"
+  local json="$OUT/jest-$ws.json"
+  rm -f "$json"
+  (cd "$ws" && npx jest --ci --json --outputFile="$json" "$@") || status=1
+  if [ -s "$json" ]; then
+    read -r p f < <(node -e 'const r=require(process.argv[1]);console.log(r.numPassedTests, r.numFailedTests + r.numRuntimeErrorTestSuites)' "$json")
+    passed=$((passed + p)); failed=$((failed + f))
+  else
+    failed=$((failed + 1)); status=1
+  fi
+}
+run_suite shared "$@"
+run_suite service "$@"
+run_suite ui "$@"
+echo
+echo "foldfolio: $passed passed, $failed failed"
+exit $status

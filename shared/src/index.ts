@@ -1,0 +1,3 @@
+// Public surface of the Foldfolio structure engine.
+export * from './report/types';
+export * from './model/types';
