@@ -1,0 +1,1 @@
+// Nest bootstrap is added by the foundation work.
