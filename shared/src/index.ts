@@ -2,3 +2,4 @@
 export * from './report/types';
 export * from './model/types';
 export * from './api/types';
+export * from './experiment';
