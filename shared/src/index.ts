@@ -3,3 +3,11 @@ export * from './report/types';
 export * from './model/types';
 export * from './api/types';
 export * from './experiment';
+// Readers, hierarchy lookups and torsions (engine I).
+export * from './io/errors';
+export * from './io/read';
+export { DEFAULT_MAX_UNCOMPRESSED_BYTES } from './io/gzip';
+export * from './model/conformers';
+export * from './geometry/vec';
+export * from './geometry/torsion';
+export * from './validation/torsions';

@@ -59,6 +59,10 @@ export interface ResidueColumns {
   icode: Int32Array;
   /** ResidueKind */
   kind: Uint8Array;
+  /** label_asym_id of the residue, index into strings (auth chain id for PDB files) */
+  labelAsym: Int32Array;
+  /** 1 when the residue maps to a standard parent through a modification record or table */
+  modified: Uint8Array;
 }
 
 export interface ChainColumns {

@@ -1,0 +1,271 @@
+/**
+ * Legacy PDB fixed-column reader (wwPDB PDB Format 3.3). Streams over the bytes line by line;
+ * numeric fields are parsed straight from the bytes and text fields are interned through a
+ * numeric key of their bytes, so no string or object is made per atom.
+ */
+import type { Structure } from '../model/types';
+import { NO_LABEL_SEQ, StructureBuilder } from './builder';
+import { StructureReadError } from './errors';
+
+const SP = 32;
+
+/** Bytes [s, e) of the line, read as a fixed-width field (beyond the line end counts as blank). */
+function fieldKey(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
+  let k = 0;
+  for (let i = s; i < e; i++) k = k * 256 + (i < lineEnd ? buf[i] : SP);
+  return k;
+}
+
+function fieldStr(buf: Uint8Array, s: number, e: number, lineEnd: number): string {
+  let out = '';
+  const end = Math.min(e, lineEnd);
+  for (let i = s; i < end; i++) out += String.fromCharCode(buf[i]);
+  return out.trim();
+}
+
+function isBlank(buf: Uint8Array, s: number, e: number, lineEnd: number): boolean {
+  const end = Math.min(e, lineEnd);
+  for (let i = s; i < end; i++) if (buf[i] !== SP) return false;
+  return true;
+}
+
+/** Decimal number in a fixed field; NaN when blank or malformed. */
+function fieldFloat(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
+  const end = Math.min(e, lineEnd);
+  let i = s;
+  while (i < end && buf[i] === SP) i++;
+  if (i === end) return NaN;
+  let neg = false;
+  if (buf[i] === 45 /* - */) {
+    neg = true;
+    i++;
+  } else if (buf[i] === 43 /* + */) i++;
+  let v = 0;
+  let digits = 0;
+  while (i < end && buf[i] >= 48 && buf[i] <= 57) {
+    v = v * 10 + (buf[i] - 48);
+    i++;
+    digits++;
+  }
+  if (i < end && buf[i] === 46 /* . */) {
+    i++;
+    let scale = 1;
+    let f = 0;
+    while (i < end && buf[i] >= 48 && buf[i] <= 57) {
+      f = f * 10 + (buf[i] - 48);
+      scale *= 10;
+      i++;
+      digits++;
+    }
+    v += f / scale;
+  }
+  while (i < end && buf[i] === SP) i++;
+  if (i !== end || digits === 0) return NaN;
+  return neg ? -v : v;
+}
+
+/** Integer in a fixed field; NaN when blank or malformed. */
+function fieldInt(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
+  const end = Math.min(e, lineEnd);
+  let i = s;
+  while (i < end && buf[i] === SP) i++;
+  if (i === end) return NaN;
+  let neg = false;
+  if (buf[i] === 45) {
+    neg = true;
+    i++;
+  }
+  let v = 0;
+  let digits = 0;
+  while (i < end && buf[i] >= 48 && buf[i] <= 57) {
+    v = v * 10 + (buf[i] - 48);
+    i++;
+    digits++;
+  }
+  while (i < end && buf[i] === SP) i++;
+  if (i !== end || digits === 0) return NaN;
+  return neg ? -v : v;
+}
+
+function startsWith(buf: Uint8Array, p: number, lineEnd: number, word: string): boolean {
+  if (p + word.length > lineEnd) return false;
+  for (let k = 0; k < word.length; k++) if (buf[p + k] !== word.charCodeAt(k)) return false;
+  return true;
+}
+
+class KeyedInterner {
+  private readonly map = new Map<number, number>();
+  constructor(
+    private readonly b: StructureBuilder,
+    private readonly upper = false,
+  ) {}
+  get(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
+    const k = fieldKey(buf, s, e, lineEnd);
+    let v = this.map.get(k);
+    if (v === undefined) {
+      const str = fieldStr(buf, s, e, lineEnd);
+      v = this.b.intern(this.upper ? str.toUpperCase() : str);
+      this.map.set(k, v);
+    }
+    return v;
+  }
+}
+
+/** Element from the atom name when columns 77–78 are blank (PDB Format 3.3 name alignment). */
+function elementFromName(buf: Uint8Array, s: number, lineEnd: number): string {
+  const c0 = s < lineEnd ? buf[s] : SP;
+  const c1 = s + 1 < lineEnd ? buf[s + 1] : SP;
+  if (c0 === SP || (c0 >= 48 && c0 <= 57)) return String.fromCharCode(c1).toUpperCase();
+  if (c0 === 72 /* H */) return 'H';
+  return (String.fromCharCode(c0) + (c1 >= 65 && c1 <= 122 ? String.fromCharCode(c1) : ''))
+    .toUpperCase()
+    .trim();
+}
+
+function lineError(line: number, what: string): StructureReadError {
+  return new StructureReadError(`Line ${line}: ${what}`, { line, item: 'ATOM/HETATM' });
+}
+
+export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
+  // ~81 bytes per ATOM line: a good first guess of the atom count
+  const b = new StructureBuilder(Math.ceil(buf.length / 81));
+  const names = new KeyedInterner(b);
+  const resNames = new KeyedInterner(b);
+  const chains = new KeyedInterner(b);
+  const singles = new KeyedInterner(b);
+  const elements = new KeyedInterner(b, true);
+  const elementByName = new Map<number, number>();
+  let model = 1;
+  let afterTer = false;
+  let id = '';
+  const seqres = new Map<string, string[]>();
+  const len = buf.length;
+  let p = 0;
+  let line = 0;
+  while (p < len) {
+    line++;
+    let e = buf.indexOf(10, p);
+    if (e < 0) e = len;
+    let lineEnd = e;
+    if (lineEnd > p && buf[lineEnd - 1] === 13) lineEnd--;
+    const c0 = buf[p];
+    const isAtom = c0 === 65 && startsWith(buf, p, lineEnd, 'ATOM  ');
+    const isHet = !isAtom && c0 === 72 && startsWith(buf, p, lineEnd, 'HETATM');
+    if (isAtom || isHet) {
+      if (lineEnd - p < 54) {
+        throw lineError(
+          line,
+          `the ${isAtom ? 'ATOM' : 'HETATM'} record is cut short (${lineEnd - p} characters; coordinates need columns 31–54); the file may be truncated — export it again and upload the complete file.`,
+        );
+      }
+      const i = b.next();
+      const x = fieldFloat(buf, p + 30, p + 38, lineEnd);
+      const y = fieldFloat(buf, p + 38, p + 46, lineEnd);
+      const z = fieldFloat(buf, p + 46, p + 54, lineEnd);
+      if (Number.isNaN(x) || Number.isNaN(y) || Number.isNaN(z)) {
+        throw lineError(
+          line,
+          'the coordinates in columns 31–54 are not three numbers; fix that line (or remove the atom) and upload again.',
+        );
+      }
+      b.x[i] = x;
+      b.y[i] = y;
+      b.z[i] = z;
+      const occ = fieldFloat(buf, p + 54, p + 60, lineEnd);
+      if (Number.isNaN(occ) && !isBlank(buf, p + 54, p + 60, lineEnd)) {
+        throw lineError(
+          line,
+          'the occupancy in columns 55–60 is not a number; fix that line and upload again.',
+        );
+      }
+      b.occupancy[i] = Number.isNaN(occ) ? 1 : occ;
+      const bf = fieldFloat(buf, p + 60, p + 66, lineEnd);
+      if (Number.isNaN(bf) && !isBlank(buf, p + 60, p + 66, lineEnd)) {
+        throw lineError(
+          line,
+          'the B-factor in columns 61–66 is not a number; fix that line and upload again.',
+        );
+      }
+      b.bIso[i] = Number.isNaN(bf) ? 0 : bf;
+      const serial = fieldInt(buf, p + 6, p + 11, lineEnd);
+      // hybrid-36 serials (files over 99,999 atoms) are not decimal: number atoms in order then
+      b.serial[i] = Number.isNaN(serial) ? i + 1 : serial;
+      b.name[i] = names.get(buf, p + 12, p + 16, lineEnd);
+      b.altloc[i] = singles.get(buf, p + 16, p + 17, lineEnd);
+      b.resName[i] = resNames.get(buf, p + 17, p + 21, lineEnd);
+      const ch = chains.get(buf, p + 21, p + 22, lineEnd);
+      b.chainAuth[i] = ch;
+      b.chainLabel[i] = ch;
+      const seq = fieldInt(buf, p + 22, p + 26, lineEnd);
+      if (Number.isNaN(seq)) {
+        throw lineError(
+          line,
+          'the residue number in columns 23–26 is not an integer; fix that line and upload again.',
+        );
+      }
+      b.authSeq[i] = seq;
+      b.labelSeq[i] = NO_LABEL_SEQ;
+      b.icode[i] = singles.get(buf, p + 26, p + 27, lineEnd);
+      b.modelNum[i] = model;
+      b.hetatm[i] = isHet ? 1 : 0;
+      if (afterTer) {
+        b.residueBreak[i] = 1;
+        afterTer = false;
+      }
+      if (isBlank(buf, p + 76, p + 78, lineEnd)) {
+        const k = fieldKey(buf, p + 12, p + 14, lineEnd);
+        let el = elementByName.get(k);
+        if (el === undefined) {
+          el = b.intern(elementFromName(buf, p + 12, lineEnd));
+          elementByName.set(k, el);
+        }
+        b.element[i] = el;
+      } else {
+        b.element[i] = elements.get(buf, p + 76, p + 78, lineEnd);
+      }
+      if (!isBlank(buf, p + 78, p + 80, lineEnd)) {
+        const d = p + 78 < lineEnd ? buf[p + 78] : SP;
+        const s = p + 79 < lineEnd ? buf[p + 79] : SP;
+        if (d >= 48 && d <= 57 && (s === 43 || s === 45)) {
+          b.charge[i] = (s === 45 ? -1 : 1) * (d - 48);
+        } else {
+          throw lineError(
+            line,
+            `the formal-charge columns 79–80 hold "${fieldStr(buf, p + 78, p + 80, lineEnd)}", which is not a charge such as "2+" or "1-"; blank columns 73–80 if they hold old annotations (segment ids, line numbers), or write the charge correctly, and upload again.`,
+          );
+        }
+      }
+    } else if (startsWith(buf, p, lineEnd, 'MODEL ')) {
+      const m = fieldInt(buf, p + 6, lineEnd, lineEnd);
+      if (Number.isNaN(m))
+        throw lineError(
+          line,
+          'the MODEL record has no model number in columns 11–14; number the model and upload again.',
+        );
+      model = m;
+    } else if (startsWith(buf, p, lineEnd, 'ENDMDL')) {
+      afterTer = false;
+    } else if (startsWith(buf, p, lineEnd, 'TER')) {
+      afterTer = true;
+    } else if (startsWith(buf, p, lineEnd, 'MODRES')) {
+      const comp = fieldStr(buf, p + 12, p + 15, lineEnd);
+      const parent = fieldStr(buf, p + 24, p + 27, lineEnd);
+      if (comp !== '' && parent !== '') b.fileParents.set(comp, parent);
+    } else if (startsWith(buf, p, lineEnd, 'SEQRES')) {
+      const chain = fieldStr(buf, p + 11, p + 12, lineEnd);
+      let list = seqres.get(chain);
+      if (list === undefined) seqres.set(chain, (list = []));
+      for (let c = p + 19; c < lineEnd; c += 4) {
+        const r = fieldStr(buf, c, c + 4, lineEnd);
+        if (r !== '') list.push(r);
+      }
+    } else if (startsWith(buf, p, lineEnd, 'HEADER')) {
+      id = fieldStr(buf, p + 62, p + 66, lineEnd);
+    }
+    p = e + 1;
+  }
+  for (const [chain, seq] of seqres) {
+    b.entities.push({ id: chain, type: 'polymer', sequence: seq });
+  }
+  return b.finish('pdb', gzip, id);
+}

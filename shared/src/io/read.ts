@@ -1,0 +1,157 @@
+/**
+ * `readStructure`: one entry point for every coordinate format. The format is sniffed from the
+ * content (gzip magic, BinaryCIF MessagePack map, CIF `data_`, PDB records); the filename only
+ * breaks ties and shapes error messages.
+ */
+import type { InputFormat } from '../report/types';
+import type { Structure } from '../model/types';
+import { blockToStructure, parseBinaryCif, parseCifText } from './cif';
+import { StructureReadError } from './errors';
+import { DEFAULT_MAX_UNCOMPRESSED_BYTES, gunzipLimited, isGzip } from './gzip';
+import { readPdb } from './pdb';
+
+export interface ReadOptions {
+  /** ceiling on the decompressed size of gzip input (default 2 GiB) */
+  maxUncompressedBytes?: number;
+}
+
+export interface SniffResult {
+  format: InputFormat;
+  gzip: boolean;
+  /** the decompressed bytes */
+  bytes: Uint8Array;
+}
+
+const PDB_RECORDS = [
+  'HEADER',
+  'ATOM  ',
+  'HETATM',
+  'REMARK',
+  'CRYST1',
+  'MODEL ',
+  'TITLE ',
+  'COMPND',
+  'SOURCE',
+  'EXPDTA',
+  'AUTHOR',
+  'SEQRES',
+  'KEYWDS',
+  'OBSLTE',
+  'SPLIT ',
+  'CAVEAT',
+  'JRNL  ',
+  'REVDAT',
+  'DBREF ',
+  'HELIX ',
+  'SHEET ',
+  'ORIGX1',
+  'SCALE1',
+  'MTRIX1',
+  'SPRSDE',
+  'NUMMDL',
+  'MDLTYP',
+];
+
+/** True when the first bytes look like text (no NUL, few control characters). */
+function looksLikeText(bytes: Uint8Array): boolean {
+  const n = Math.min(bytes.length, 4096);
+  let bad = 0;
+  for (let i = 0; i < n; i++) {
+    const c = bytes[i];
+    if (c === 0) return false;
+    if (c < 9 || (c > 13 && c < 32)) bad++;
+  }
+  return bad <= n / 100;
+}
+
+function headText(bytes: Uint8Array, n: number): string {
+  let s = '';
+  const m = Math.min(bytes.length, n);
+  for (let i = 0; i < m; i++) s += String.fromCharCode(bytes[i]);
+  return s;
+}
+
+function isCifText(head: string): boolean {
+  for (const raw of head.split('\n')) {
+    const l = raw.trim();
+    if (l === '' || l.startsWith('#')) continue;
+    return l.toLowerCase().startsWith('data_');
+  }
+  return false;
+}
+
+function isPdbText(head: string): boolean {
+  for (const raw of head.split('\n')) {
+    if (raw.trim() === '') continue;
+    const rec = (raw.replace('\r', '') + '      ').slice(0, 6);
+    return PDB_RECORDS.includes(rec) || rec.startsWith('TER') || rec.startsWith('END');
+  }
+  return false;
+}
+
+/** Decide the format and decompress. Throws StructureReadError on anything unrecognisable. */
+export function sniffStructure(
+  input: Uint8Array,
+  filenameHint = '',
+  options: ReadOptions = {},
+): SniffResult {
+  const label = filenameHint !== '' ? `"${filenameHint}"` : 'The file';
+  if (input.length === 0) {
+    throw new StructureReadError(
+      `${label} is empty (0 bytes); choose the coordinate file again and upload it.`,
+      { item: 'file' },
+    );
+  }
+  let bytes = input;
+  let gzip = false;
+  if (isGzip(bytes)) {
+    bytes = gunzipLimited(bytes, options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED_BYTES);
+    gzip = true;
+    if (bytes.length === 0) {
+      throw new StructureReadError(
+        `${label} is a gzip archive of an empty file; compress the coordinate file itself and upload again.`,
+        { item: 'gzip' },
+      );
+    }
+  }
+  const b0 = bytes[0];
+  // BinaryCIF is a MessagePack map (fixmap 0x80–0x8f, map16 0xde, map32 0xdf) holding "encoder"/"dataBlocks"
+  if ((b0 >= 0x80 && b0 <= 0x8f) || b0 === 0xde || b0 === 0xdf) {
+    const head = headText(bytes, 256);
+    if (head.includes('dataBlocks') || head.includes('encoder'))
+      return { format: 'bcif', gzip, bytes };
+  }
+  if (looksLikeText(bytes)) {
+    const head = headText(bytes, 8192);
+    if (isCifText(head)) return { format: 'mmcif', gzip, bytes };
+    if (isPdbText(head)) return { format: 'pdb', gzip, bytes };
+    const hint = filenameHint.toLowerCase();
+    if (/\.(pdb|ent)(\.gz)?$/.test(hint) && head.includes('ATOM  '))
+      return { format: 'pdb', gzip, bytes };
+  }
+  throw new StructureReadError(
+    `${label} is not a coordinate file Foldfolio can read (expected PDBx/mmCIF text starting with "data_", BinaryCIF, or PDB records such as ATOM/HETATM, optionally gzip-compressed); check that you picked the model file and upload it again.`,
+    { item: 'format' },
+  );
+}
+
+/** Read any supported coordinate file into the typed-array hierarchy. */
+export async function readStructure(
+  input: Uint8Array,
+  filenameHint = '',
+  options: ReadOptions = {},
+): Promise<Structure> {
+  const { format, gzip, bytes } = sniffStructure(input, filenameHint, options);
+  if (format === 'pdb') return readPdb(bytes, gzip);
+  if (format === 'bcif') return blockToStructure(await parseBinaryCif(bytes), 'bcif', gzip);
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: false }).decode(bytes);
+  } catch {
+    throw new StructureReadError(
+      'The mmCIF file is not valid text; export it again as plain text and upload it.',
+      { item: 'file' },
+    );
+  }
+  return blockToStructure(await parseCifText(text), 'mmcif', gzip);
+}
