@@ -1,0 +1,83 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type {
+  PasswordResetConfirmBody,
+  PasswordResetRequestBody,
+  RegisterBody,
+  SessionDto,
+  SignInBody,
+  UserDto,
+} from '@foldfolio/shared';
+import { api, setSession } from './client';
+import { meKeys } from './keys';
+
+export function useMe(enabled: boolean) {
+  return useQuery({
+    queryKey: meKeys.all,
+    queryFn: () => api<UserDto>('/api/me'),
+    enabled,
+  });
+}
+
+export function useSignIn() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: SignInBody) =>
+      api<SessionDto>('/api/auth/login', { method: 'POST', body, anonymous: true }),
+    onSuccess: (session) => {
+      // a different person may sign in in the same tab: nothing cached may leak across
+      qc.clear();
+      setSession(session);
+    },
+  });
+}
+
+export function useRegister() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: async (body: RegisterBody): Promise<SessionDto> => {
+      const created = await api<Partial<SessionDto> & { user?: UserDto }>('/api/auth/register', {
+        method: 'POST',
+        body,
+        anonymous: true,
+      });
+      if (created && typeof created.accessToken === 'string' && created.user)
+        return created as SessionDto;
+      // registration that does not open a session: sign in with the same credentials
+      return api<SessionDto>('/api/auth/login', {
+        method: 'POST',
+        body: { email: body.email, password: body.password },
+        anonymous: true,
+      });
+    },
+    onSuccess: (session) => {
+      qc.clear();
+      setSession(session);
+    },
+  });
+}
+
+export function useSignOut() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<void>('/api/auth/logout', { method: 'POST' }),
+    // sign out locally even when the server call fails: the user asked to leave
+    onSettled: () => {
+      setSession(null);
+      qc.clear();
+    },
+  });
+}
+
+export function useRequestPasswordReset() {
+  return useMutation({
+    mutationFn: (body: PasswordResetRequestBody) =>
+      api<void>('/api/auth/password-reset/request', { method: 'POST', body, anonymous: true }),
+  });
+}
+
+export function useConfirmPasswordReset() {
+  return useMutation({
+    mutationFn: (body: PasswordResetConfirmBody) =>
+      api<void>('/api/auth/password-reset/confirm', { method: 'POST', body, anonymous: true }),
+  });
+}
