@@ -1,0 +1,207 @@
+/**
+ * Covalent geometry of protein residues against the Engh & Huber 2001 ideal values
+ * (`ideal/engh-huber.ts`): backbone bonds and angles, CA–CB and the angles at CA involving CB,
+ * and the peptide bond C(i)–N(i+1) with the angles across it. RMSD, RMS-Z and the terms beyond
+ * 4σ (common practice, no source) are reported per model.
+ *
+ * Every conformer is measured (altlocs: a residue is an outlier if any conformer is); a term
+ * shared by two conformers is counted once per conformer. Terms across a chain break
+ * (C(i)–N(i+1) > 2.0 Å, see model/conformers.ts) are not measured.
+ */
+import type { ConformerTable } from '../model/conformers';
+import type { Model, Structure } from '../model/types';
+import { ResidueKind } from '../model/types';
+import type { GeometryOutlier, GeometryStats } from '../report/types';
+import {
+  BACKBONE_ANGLES,
+  BACKBONE_BONDS,
+  PEPTIDE_ANGLES,
+  PEPTIDE_BOND,
+  caCbBond,
+  cbAngles,
+  cNCaAngle,
+  residueClass,
+} from './ideal/engh-huber';
+import type { IdealValue } from './ideal/engh-huber';
+import { angleDeg, distanceA } from '../geometry/vec';
+import { torsionDeg } from '../geometry/torsion';
+
+/** |z| above this is an outlier (common practice, no source). */
+export const COVALENT_OUTLIER_Z = 4;
+
+export interface CovalentTerm {
+  /** conformer that owns the term (the first residue of a peptide term) */
+  conformer: number;
+  kind: 'bond' | 'angle';
+  /** atom names, with a '+' suffix for atoms of the following residue */
+  atoms: string[];
+  observed: number;
+  ideal: number;
+  sigma: number;
+  z: number;
+}
+
+export interface CovalentResult {
+  bonds: GeometryStats;
+  angles: GeometryStats;
+  /** every term beyond 4σ, in conformer order */
+  outliers: CovalentTerm[];
+  /** largest |z| per conformer, NaN when nothing was measured */
+  bondZMax: Float64Array;
+  angleZMax: Float64Array;
+  /** mean observed length of each backbone bond type (for checks against the ideal values) */
+  meanBondA: Record<string, { mean: number; count: number }>;
+}
+
+export function parentName(structure: Structure, model: Model, residue: number): string {
+  return structure.strings[model.residues.parent[residue]];
+}
+
+/** Measures every covalent term of every protein conformer of the model. */
+export function analyseCovalent(
+  structure: Structure,
+  model: Model,
+  t: ConformerTable,
+): CovalentResult {
+  const atoms = model.atoms;
+  const bondZMax = new Float64Array(t.count).fill(NaN);
+  const angleZMax = new Float64Array(t.count).fill(NaN);
+  const sums = { bond: [0, 0, 0], angle: [0, 0, 0] }; // count, Σd², Σz²
+  const outCount = { bond: 0, angle: 0 };
+  const meanAcc: Record<string, { sum: number; count: number }> = {};
+  const outliers: CovalentTerm[] = [];
+
+  const add = (
+    k: number,
+    kind: 'bond' | 'angle',
+    names: string[],
+    observed: number,
+    ref: IdealValue,
+  ): void => {
+    const d = observed - ref.ideal;
+    const z = d / ref.sigma;
+    const s = sums[kind];
+    s[0]++;
+    s[1] += d * d;
+    s[2] += z * z;
+    const zmax = kind === 'bond' ? bondZMax : angleZMax;
+    if (!(Math.abs(z) <= zmax[k])) zmax[k] = Math.abs(z);
+    const term: CovalentTerm = {
+      conformer: k,
+      kind,
+      atoms: names,
+      observed,
+      ideal: ref.ideal,
+      sigma: ref.sigma,
+      z,
+    };
+    if (Math.abs(z) > COVALENT_OUTLIER_Z) {
+      outCount[kind]++;
+      outliers.push(term);
+    }
+    if (kind === 'bond') {
+      const key = names.join('-');
+      const m = (meanAcc[key] ??= { sum: 0, count: 0 });
+      m.sum += observed;
+      m.count++;
+    }
+  };
+
+  for (let k = 0; k < t.count; k++) {
+    const r = t.residue[k];
+    if (model.residues.kind[r] !== ResidueKind.Protein) continue;
+    const parent = parentName(structure, model, r);
+    const cls = residueClass(parent);
+    const n = t.n[k];
+    const ca = t.ca[k];
+    const c = t.c[k];
+    const o = t.o[k];
+    const cb = t.cb[k];
+    if (n >= 0 && ca >= 0)
+      add(k, 'bond', ['N', 'CA'], distanceA(atoms, n, ca), BACKBONE_BONDS['N-CA'][cls]);
+    if (ca >= 0 && c >= 0)
+      add(k, 'bond', ['CA', 'C'], distanceA(atoms, ca, c), BACKBONE_BONDS['CA-C'][cls]);
+    if (c >= 0 && o >= 0)
+      add(k, 'bond', ['C', 'O'], distanceA(atoms, c, o), BACKBONE_BONDS['C-O'][cls]);
+    if (n >= 0 && ca >= 0 && c >= 0) {
+      add(k, 'angle', ['N', 'CA', 'C'], angleDeg(atoms, n, ca, c), BACKBONE_ANGLES['N-CA-C'][cls]);
+    }
+    if (ca >= 0 && c >= 0 && o >= 0) {
+      add(k, 'angle', ['CA', 'C', 'O'], angleDeg(atoms, ca, c, o), BACKBONE_ANGLES['CA-C-O'][cls]);
+    }
+    if (cb >= 0 && ca >= 0 && cls !== 'gly') {
+      add(k, 'bond', ['CA', 'CB'], distanceA(atoms, ca, cb), caCbBond(parent));
+      const ang = cbAngles(parent);
+      if (n >= 0) add(k, 'angle', ['N', 'CA', 'CB'], angleDeg(atoms, n, ca, cb), ang.nCaCb);
+      if (c >= 0) add(k, 'angle', ['CB', 'CA', 'C'], angleDeg(atoms, cb, ca, c), ang.cbCaC);
+    }
+    const q = t.next[k];
+    if (q < 0 || c < 0) continue;
+    const nn = t.n[q];
+    const nca = t.ca[q];
+    if (nn < 0) continue;
+    const nextParent = parentName(structure, model, t.residue[q]);
+    // Pro N takes the proline column; otherwise this residue's Gly carbonyl/CA the glycine column.
+    const pepCls = nextParent === 'PRO' ? 'pro' : cls === 'gly' ? 'gly' : 'general';
+    add(k, 'bond', ['C', 'N+'], distanceA(atoms, c, nn), PEPTIDE_BOND[pepCls]);
+    if (ca >= 0)
+      add(
+        k,
+        'angle',
+        ['CA', 'C', 'N+'],
+        angleDeg(atoms, ca, c, nn),
+        PEPTIDE_ANGLES['CA-C-N'][pepCls],
+      );
+    if (o >= 0)
+      add(k, 'angle', ['O', 'C', 'N+'], angleDeg(atoms, o, c, nn), PEPTIDE_ANGLES['O-C-N'][pepCls]);
+    if (nca >= 0) {
+      const cis = ca >= 0 && Math.abs(torsionDeg(atoms, ca, c, nn, nca)) < 30;
+      add(k, 'angle', ['C', 'N+', 'CA+'], angleDeg(atoms, c, nn, nca), cNCaAngle(nextParent, cis));
+    }
+  }
+
+  const stats = (kind: 'bond' | 'angle'): GeometryStats => {
+    const [count, d2, z2] = sums[kind];
+    return {
+      count,
+      rmsd: count > 0 ? Math.sqrt(d2 / count) : null,
+      rmsZ: count > 0 ? Math.sqrt(z2 / count) : null,
+      outliers: outCount[kind],
+    };
+  };
+  const meanBondA: Record<string, { mean: number; count: number }> = {};
+  for (const [key, m] of Object.entries(meanAcc))
+    meanBondA[key] = { mean: m.sum / m.count, count: m.count };
+  return { bonds: stats('bond'), angles: stats('angle'), outliers, bondZMax, angleZMax, meanBondA };
+}
+
+/** Converts covalent outliers to the report's list, naming residues by their author ids. */
+export function covalentOutlierRows(
+  structure: Structure,
+  model: Model,
+  t: ConformerTable,
+  outliers: CovalentTerm[],
+): GeometryOutlier[] {
+  const s = structure.strings;
+  const res = model.residues;
+  return outliers.map((o) => {
+    const r = t.residue[o.conformer];
+    return {
+      chain: s[model.chains.authId[res.chain[r]]],
+      seq: res.authSeq[r],
+      icode: s[res.icode[r]],
+      name: s[res.name[r]],
+      altloc: s[t.altloc[o.conformer]],
+      atoms: o.atoms,
+      observed: round(o.observed, o.kind === 'bond' ? 3 : 1),
+      ideal: o.ideal,
+      sigma: o.sigma,
+      z: round(o.z, 2),
+    };
+  });
+}
+
+function round(x: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}
