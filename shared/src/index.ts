@@ -2,6 +2,7 @@
 export * from './report/types';
 export * from './model/types';
 export * from './api/types';
+export * from './api/workflow';
 export * from './experiment';
 // Readers, hierarchy lookups and torsions (engine I).
 export * from './io/errors';
