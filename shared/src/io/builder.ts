@@ -18,6 +18,7 @@ import {
   STANDARD_NUCLEOTIDES,
 } from './residue-tables';
 import { StructureReadError } from './errors';
+import { ResidueKind } from '../model/types';
 
 export const NO_LABEL_SEQ = -2147483648;
 
@@ -175,6 +176,47 @@ export class StructureBuilder {
     return { format, gzip, strings: this.strings, models, entities: this.entities, id };
   }
 
+  /**
+   * A non-standard component with N, CA and C that is peptide-bonded (C–N ≤ 2.0 Å, common
+   * practice, no source) to a protein neighbour in the same chain is an amino acid of the
+   * polymer (files without entity records, e.g. PDB HETATM groups inside a chain).
+   */
+  private promoteLinkedAminoAcids(atoms: AtomColumns, res: ResidueColumns, a0: number): void {
+    const find = (r: number, nm: string): number => {
+      const idx = this.stringIndex.get(nm);
+      if (idx === undefined) return -1;
+      for (let i = res.atomStart[r]; i < res.atomEnd[r]; i++) if (atoms.name[i] === idx) return i;
+      return -1;
+    };
+    const linked = (c: number, n: number): boolean => {
+      if (c < 0 || n < 0) return false;
+      const dx = atoms.x[c] - atoms.x[n],
+        dy = atoms.y[c] - atoms.y[n],
+        dz = atoms.z[c] - atoms.z[n];
+      return dx * dx + dy * dy + dz * dz <= 4.0;
+    };
+    const sameChain = (a: number, b: number): boolean =>
+      this.chainAuth[a0 + res.atomStart[a]] === this.chainAuth[a0 + res.atomStart[b]];
+    for (let r = 0; r < res.count; r++) {
+      if (res.kind[r] !== ResidueKind.Ligand) continue;
+      const n = find(r, 'N'),
+        ca = find(r, 'CA'),
+        c = find(r, 'C');
+      if (n < 0 || ca < 0 || c < 0) continue;
+      const before =
+        r > 0 &&
+        sameChain(r - 1, r) &&
+        res.kind[r - 1] === ResidueKind.Protein &&
+        linked(find(r - 1, 'C'), n);
+      const after =
+        r + 1 < res.count &&
+        sameChain(r, r + 1) &&
+        res.kind[r + 1] === ResidueKind.Protein &&
+        linked(c, find(r + 1, 'N'));
+      if (before || after) res.kind[r] = ResidueKind.Protein;
+    }
+  }
+
   private cutModel(a0: number, a1: number): Model {
     const count = a1 - a0;
     const atoms: AtomColumns = {
@@ -259,6 +301,7 @@ export class StructureBuilder {
         heavy,
       );
     }
+    this.promoteLinkedAminoAcids(atoms, residues, a0);
     // chain boundaries: contiguous runs of one auth chain id
     const cStart: number[] = [];
     for (let r = 0; r < nr; r++) {

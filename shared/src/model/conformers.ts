@@ -114,6 +114,16 @@ export function conformerAtoms(
   return out;
 }
 
+/**
+ * Residues that may share a peptide bond: two protein residues, or a protein residue and an
+ * in-chain non-standard group (caps, unknown amino acids) — the C–N distance decides.
+ */
+function peptideLinkable(a: number, b: number): boolean {
+  const okA = a === ResidueKind.Protein || a === ResidueKind.Ligand;
+  const okB = b === ResidueKind.Protein || b === ResidueKind.Ligand;
+  return okA && okB && (a === ResidueKind.Protein || b === ResidueKind.Protein);
+}
+
 function dist2(model: Model, i: number, j: number): number {
   const { x, y, z } = model.atoms;
   const dx = x[i] - x[j];
@@ -187,7 +197,7 @@ export function buildConformers(structure: Structure, model: Model): ConformerTa
   const maxD2 = PEPTIDE_BREAK_A * PEPTIDE_BREAK_A;
   for (let r = 1; r < nr; r++) {
     if (chain[r] !== chain[r - 1]) continue;
-    if (kind[r] !== ResidueKind.Protein || kind[r - 1] !== ResidueKind.Protein) continue;
+    if (!peptideLinkable(kind[r], kind[r - 1])) continue;
     for (let k = firstOfResidue[r]; k < firstOfResidue[r] + countOfResidue[r]; k++) {
       const p = matchConformer(firstOfResidue[r - 1], countOfResidue[r - 1], t.altloc, t.altloc[k]);
       const cPrev = t.c[p];
