@@ -1,7 +1,7 @@
 /** @type {import('jest').Config} */
 module.exports = {
   testEnvironment: 'node',
-  roots: ['<rootDir>/e2e', '<rootDir>/test'],
+  roots: ['<rootDir>/e2e', '<rootDir>/src'],
   testMatch: ['**/*.test.ts'],
   transform: { '^.+\\.ts$': ['ts-jest', { tsconfig: '<rootDir>/tsconfig.e2e.json' }] },
   // the browser test starts the whole service; one at a time keeps 2 cores usable

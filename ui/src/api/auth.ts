@@ -13,7 +13,7 @@ import { meKeys } from './keys';
 export function useMe(enabled: boolean) {
   return useQuery({
     queryKey: meKeys.all,
-    queryFn: () => api<UserDto>('/api/me'),
+    queryFn: () => api<UserDto>('/api/auth/me'),
     enabled,
   });
 }
@@ -22,7 +22,7 @@ export function useSignIn() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (body: SignInBody) =>
-      api<SessionDto>('/api/auth/login', { method: 'POST', body, anonymous: true }),
+      api<SessionDto>('/api/auth/sign-in', { method: 'POST', body, anonymous: true }),
     onSuccess: (session) => {
       // a different person may sign in in the same tab: nothing cached may leak across
       qc.clear();
@@ -43,7 +43,7 @@ export function useRegister() {
       if (created && typeof created.accessToken === 'string' && created.user)
         return created as SessionDto;
       // registration that does not open a session: sign in with the same credentials
-      return api<SessionDto>('/api/auth/login', {
+      return api<SessionDto>('/api/auth/sign-in', {
         method: 'POST',
         body: { email: body.email, password: body.password },
         anonymous: true,
@@ -59,7 +59,7 @@ export function useRegister() {
 export function useSignOut() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: () => api<void>('/api/auth/logout', { method: 'POST' }),
+    mutationFn: () => api<void>('/api/auth/sign-out', { method: 'POST' }),
     // sign out locally even when the server call fails: the user asked to leave
     onSettled: () => {
       setSession(null);
@@ -71,7 +71,7 @@ export function useSignOut() {
 export function useRequestPasswordReset() {
   return useMutation({
     mutationFn: (body: PasswordResetRequestBody) =>
-      api<void>('/api/auth/password-reset/request', { method: 'POST', body, anonymous: true }),
+      api<void>('/api/auth/password-reset', { method: 'POST', body, anonymous: true }),
   });
 }
 

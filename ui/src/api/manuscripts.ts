@@ -8,7 +8,7 @@ const base = (id: string) => `/api/manuscripts/${encodeURIComponent(id)}`;
 export function useManuscripts() {
   return useQuery({
     queryKey: manuscriptKeys.list(),
-    queryFn: () => api<ManuscriptDto[]>('/api/manuscripts'),
+    queryFn: () => api<ManuscriptDto[]>('/api/manuscripts?includeArchived=true'),
   });
 }
 
@@ -45,7 +45,7 @@ export function useSetArchived(id: string) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (archived: boolean) =>
-      api<ManuscriptDto>(`${base(id)}/${archived ? 'archive' : 'unarchive'}`, { method: 'POST' }),
+      api<ManuscriptDto>(`${base(id)}/${archived ? 'archive' : 'restore'}`, { method: 'POST' }),
     onSuccess: () =>
       Promise.all([
         qc.invalidateQueries({ queryKey: manuscriptKeys.detail(id) }),

@@ -31,7 +31,7 @@ export function useChangeMemberRole(manuscriptId: string) {
   });
 }
 
-/** Removing someone else, or leaving (removing oneself). */
+/** An owner removes someone else. */
 export function useRemoveMember(manuscriptId: string) {
   const qc = useQueryClient();
   return useMutation({
@@ -43,5 +43,20 @@ export function useRemoveMember(manuscriptId: string) {
         // member counts on the Desk change
         qc.invalidateQueries({ queryKey: manuscriptKeys.list() }),
       ]),
+  });
+}
+
+/** Leaving is its own route: any member may leave, the last owner may not. */
+export function useLeaveManuscript(manuscriptId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () =>
+      api<void>(`/api/manuscripts/${encodeURIComponent(manuscriptId)}/leave`, { method: 'POST' }),
+    onSuccess: () => {
+      // the manuscript is no longer ours to read: drop its cached detail and members
+      qc.removeQueries({ queryKey: manuscriptKeys.detail(manuscriptId) });
+      qc.removeQueries({ queryKey: memberKeys.list(manuscriptId) });
+      return qc.invalidateQueries({ queryKey: manuscriptKeys.list() });
+    },
   });
 }

@@ -17,7 +17,12 @@ import {
 import { useNavigate } from 'react-router';
 import { errorMessage } from '../../api/client';
 import { useInvitations, useRevokeInvitation } from '../../api/invitations';
-import { useChangeMemberRole, useMembers, useRemoveMember } from '../../api/members';
+import {
+  useChangeMemberRole,
+  useLeaveManuscript,
+  useMembers,
+  useRemoveMember,
+} from '../../api/members';
 import { InviteDialog } from '../../components/InviteDialog';
 import { Loading } from '../../components/Loading';
 import { Problem } from '../../components/Problem';
@@ -37,6 +42,7 @@ export function MembersTab({ manuscript }: { manuscript: ManuscriptDto }) {
   const invitations = useInvitations(manuscript.id, isOwner);
   const changeRole = useChangeMemberRole(manuscript.id);
   const remove = useRemoveMember(manuscript.id);
+  const leave = useLeaveManuscript(manuscript.id);
   const revoke = useRevokeInvitation(manuscript.id);
   const [inviting, setInviting] = useState(false);
   const [pending, setPending] = useState<Pending | null>(null);
@@ -55,19 +61,27 @@ export function MembersTab({ manuscript }: { manuscript: ManuscriptDto }) {
   const confirmPending = () => {
     if (!pending) return;
     const { kind, member } = pending;
-    remove.mutate(member.userId, {
-      onSuccess: () => {
-        setPending(null);
-        if (kind === 'leave') {
+    const onError = (e: unknown) => {
+      setPending(null);
+      notify(errorMessage(e), 'danger');
+    };
+    if (kind === 'leave')
+      leave.mutate(undefined, {
+        onSuccess: () => {
+          setPending(null);
           notify(`You left “${manuscript.title}”.`);
           navigate('/desk');
-        } else notify(`${member.displayName} no longer has access.`);
-      },
-      onError: (e) => {
-        setPending(null);
-        notify(errorMessage(e), 'danger');
-      },
-    });
+        },
+        onError,
+      });
+    else
+      remove.mutate(member.userId, {
+        onSuccess: () => {
+          setPending(null);
+          notify(`${member.displayName} no longer has access.`);
+        },
+        onError,
+      });
   };
 
   return (
@@ -233,7 +247,7 @@ export function MembersTab({ manuscript }: { manuscript: ManuscriptDto }) {
         icon={pending?.kind === 'leave' ? 'log-out' : 'remove'}
         confirmButtonText={pending?.kind === 'leave' ? 'Leave manuscript' : 'Remove member'}
         cancelButtonText="Cancel"
-        loading={remove.isPending}
+        loading={remove.isPending || leave.isPending}
         onCancel={() => setPending(null)}
         onConfirm={confirmPending}
       >

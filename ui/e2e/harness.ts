@@ -1,0 +1,138 @@
+// Starts the real Foldfolio service (built output, real MariaDB, its own SMTP sink) on free
+// ports with a throw-away database, and Debian's Chromium through playwright-core.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { join, resolve } from 'node:path';
+import { createConnection } from 'mysql2/promise';
+import { chromium, type Browser } from 'playwright-core';
+
+export const ROOT = resolve(__dirname, '../..');
+export const SCREENSHOTS = join(ROOT, 'test-output', 'screenshots');
+
+export function freePort(): Promise<number> {
+  return new Promise((ok, fail) => {
+    const srv = createServer();
+    srv.unref();
+    srv.on('error', fail);
+    srv.listen(0, '127.0.0.1', () => {
+      const addr = srv.address();
+      const port = typeof addr === 'object' && addr ? addr.port : 0;
+      srv.close(() => ok(port));
+    });
+  });
+}
+
+function dbSettings() {
+  const varDir = process.env.FOLDFOLIO_VAR ?? join(ROOT, 'var');
+  const pwFile = join(varDir, 'db-password');
+  const password =
+    process.env.FOLDFOLIO_DB_PASSWORD ??
+    (existsSync(pwFile) ? readFileSync(pwFile, 'utf8').trim() : '');
+  return {
+    host: process.env.FOLDFOLIO_DB_HOST ?? '127.0.0.1',
+    port: Number(process.env.FOLDFOLIO_DB_PORT ?? 33061),
+    user: process.env.FOLDFOLIO_DB_USER ?? 'foldfolio',
+    password,
+  };
+}
+
+async function adminSql(sql: string): Promise<void> {
+  const conn = await createConnection(dbSettings());
+  try {
+    await conn.query(sql);
+  } finally {
+    await conn.end();
+  }
+}
+
+export interface RunningService {
+  url: string;
+  dbName: string;
+  stop(): Promise<void>;
+}
+
+export async function startService(): Promise<RunningService> {
+  const main = process.env.FOLDFOLIO_E2E_SERVICE_MAIN ?? join(ROOT, 'service', 'dist', 'main.js');
+  if (!existsSync(main))
+    throw new Error(`${main} does not exist: build first with \`npm run build\` at the repo root.`);
+  if (!existsSync(join(ROOT, 'ui', 'dist', 'index.html')))
+    throw new Error('ui/dist is missing: build the UI first with `npm run build -w ui`.');
+
+  const dbName = `foldfolio_e2e_${randomBytes(4).toString('hex')}`;
+  // the app user may create databases named foldfolio% (scripts/services.sh grants it)
+  await adminSql(`CREATE DATABASE \`${dbName}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  const port = await freePort();
+  const smtpPort = await freePort();
+  const url = `http://127.0.0.1:${port}`;
+  let output = '';
+  const child: ChildProcess = spawn(process.execPath, [main], {
+    cwd: ROOT,
+    env: {
+      ...process.env,
+      FOLDFOLIO_PORT: String(port),
+      FOLDFOLIO_SMTP_PORT: String(smtpPort),
+      FOLDFOLIO_DB_NAME: dbName,
+      FOLDFOLIO_PUBLIC_URL: url,
+      FOLDFOLIO_JWT_SECRET: randomBytes(32).toString('hex'),
+      FOLDFOLIO_SEED_DEMO: '0',
+      FOLDFOLIO_QUIET: '1',
+      // the test signs in a handful of times from one address; keep the limiter out of the way
+      FOLDFOLIO_SIGNIN_LIMIT: '50',
+      // a cheaper hash keeps registration fast; the service still enforces its floor of 10
+      FOLDFOLIO_BCRYPT_COST: '10',
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  child.stdout?.on('data', (d: Buffer) => (output += d.toString()));
+  child.stderr?.on('data', (d: Buffer) => (output += d.toString()));
+  let exited = false;
+  child.on('exit', () => (exited = true));
+
+  const stop = async () => {
+    if (!exited) {
+      child.kill('SIGTERM');
+      const t0 = Date.now();
+      while (!exited && Date.now() - t0 < 10_000) await new Promise((r) => setTimeout(r, 100));
+      if (!exited) child.kill('SIGKILL');
+    }
+    await adminSql(`DROP DATABASE IF EXISTS \`${dbName}\``);
+  };
+
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (exited) {
+      await stop();
+      throw new Error(`The service exited during start-up:\n${output}`);
+    }
+    try {
+      const res = await fetch(`${url}/api/health`);
+      if (res.ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) {
+      await stop();
+      throw new Error(`The service did not answer /api/health within 60 s:\n${output}`);
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  return { url, dbName, stop };
+}
+
+export function launchBrowser(): Promise<Browser> {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  return chromium.launch({
+    executablePath: process.env.FOLDFOLIO_CHROMIUM ?? '/usr/bin/chromium',
+    headless: true,
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
+  });
+}
