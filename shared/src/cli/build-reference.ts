@@ -1,0 +1,106 @@
+/**
+ * `npm run build-reference -- [folder] [--list names.txt] [--out file.json] [--id name]`
+ *
+ * Builds the reference artefact from a folder of coordinate files (default
+ * ../shared/data/reference-set). Node edge: reads files, hashes the input list, writes JSON.
+ * Deterministic: files are processed in sorted order and the artefact is serialised canonically.
+ */
+import { createHash } from 'node:crypto';
+import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { readStructure } from '../io/read';
+import {
+  BUILD_PARAMETERS,
+  buildArtefact,
+  collectObservations,
+  emptyObservations,
+  serializeArtefact,
+} from '../reference/build';
+import type { ReferenceArtefact } from '../reference/artefact';
+
+export const DEFAULT_REFERENCE_FOLDER = resolve(__dirname, '../../../../shared/data/reference-set');
+export const DEFAULT_REFERENCE_OUT = resolve(__dirname, '../../src/reference/data/reference.json');
+
+const STRUCTURE_FILE = /\.(pdb|ent|cif|bcif)(\.gz)?$/i;
+
+export interface BuildOptions {
+  /** file names (relative to folder) to use; default: every coordinate file in the folder */
+  names?: string[];
+  /** id prefix; the id is `${prefix}-${files}-${sha256 first 12}` */
+  idPrefix?: string;
+}
+
+/** Sorted coordinate file names of a folder. */
+export function listStructureFiles(folder: string): string[] {
+  return readdirSync(folder)
+    .filter((f) => STRUCTURE_FILE.test(f))
+    .sort();
+}
+
+export async function buildReferenceFromFolder(
+  folder: string,
+  options: BuildOptions = {},
+): Promise<{ artefact: ReferenceArtefact; json: string }> {
+  const names = (options.names ?? listStructureFiles(folder)).slice().sort();
+  if (names.length === 0)
+    throw new Error(
+      `No coordinate files (*.pdb, *.cif, optionally .gz) found in ${folder}; pass the reference-set folder as the first argument.`,
+    );
+  const obs = emptyObservations();
+  const list = createHash('sha256');
+  for (const name of names) {
+    const bytes = readFileSync(join(folder, name));
+    list.update(`${name}\t${createHash('sha256').update(bytes).digest('hex')}\n`);
+    try {
+      const s = await readStructure(
+        new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength),
+        name,
+      );
+      collectObservations(s, obs);
+    } catch (e) {
+      throw new Error(
+        `Could not read ${name} (${(e as Error).message}); remove it from the input list or fix the file.`,
+      );
+    }
+  }
+  list.update(JSON.stringify(BUILD_PARAMETERS));
+  const sha256 = list.digest('hex');
+  const id = `${options.idPrefix ?? 'foldfolio-ref'}-${names.length}-${sha256.slice(0, 12)}`;
+  const artefact = buildArtefact(obs, id, sha256, names.length);
+  return { artefact, json: serializeArtefact(artefact) };
+}
+
+async function main(argv: string[]): Promise<void> {
+  let folder = DEFAULT_REFERENCE_FOLDER;
+  let out = DEFAULT_REFERENCE_OUT;
+  let names: string[] | undefined;
+  let idPrefix: string | undefined;
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i];
+    if (a === '--out') out = resolve(argv[++i]);
+    else if (a === '--list')
+      names = readFileSync(resolve(argv[++i]), 'utf8')
+        .split('\n')
+        .map((l) => l.trim())
+        .filter((l) => l && !l.startsWith('#'));
+    else if (a === '--id') idPrefix = argv[++i];
+    else if (a.startsWith('--'))
+      throw new Error(
+        `Unknown option ${a}; use [folder] [--list file] [--out file] [--id prefix].`,
+      );
+    else folder = resolve(a);
+  }
+  const t0 = Date.now();
+  const { artefact, json } = await buildReferenceFromFolder(folder, { names, idPrefix });
+  writeFileSync(out, json);
+  process.stdout.write(
+    `reference ${artefact.id}: ${artefact.inputs.files} files, ${artefact.inputs.residuesUsed} of ${artefact.inputs.residuesSeen} residues used, ${json.length} bytes → ${out} (${((Date.now() - t0) / 1000).toFixed(1)} s)\n`,
+  );
+}
+
+if (require.main === module) {
+  main(process.argv.slice(2)).catch((e: unknown) => {
+    process.stderr.write(`build-reference: ${(e as Error).message}\n`);
+    process.exit(1);
+  });
+}
