@@ -1,1 +1,18 @@
-// Nest bootstrap is added by the foundation work.
+import { Logger } from '@nestjs/common';
+import { createApp } from './app.js';
+import { loadConfig } from './config/app-config.js';
+import { DemoSeedService } from './seed/demo-seed.service.js';
+
+async function main(): Promise<void> {
+  const cfg = loadConfig();
+  const app = await createApp(cfg);
+  if (cfg.seedDemo) await app.get(DemoSeedService).seed();
+  await app.listen(cfg.port, '127.0.0.1');
+  const url = `http://127.0.0.1:${cfg.port}`;
+  new Logger('Foldfolio').log(`ready: ${url}  (API ${url}/api, OpenAPI ${url}/api/docs)`);
+}
+
+main().catch((err: Error) => {
+  console.error(`Foldfolio could not start: ${err.message}`);
+  process.exit(1);
+});

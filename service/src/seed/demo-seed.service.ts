@@ -1,0 +1,113 @@
+import { Inject, Injectable, Logger } from '@nestjs/common';
+import { InjectDataSource } from '@nestjs/typeorm';
+import { DataSource } from 'typeorm';
+import type { MembershipRole, SiteRole } from '@foldfolio/shared';
+import { hashPassword } from '../auth/password.js';
+import { APP_CONFIG, type AppConfig } from '../config/app-config.js';
+import { newId } from '../common/tokens.js';
+import { Manuscript } from '../manuscripts/manuscript.entity.js';
+import { Membership } from '../manuscripts/membership.entity.js';
+import { User } from '../users/user.entity.js';
+
+/** Invented lab and people (no real names); the password is for a local demo only. */
+export const DEMO_LAB = 'Tarnwick Institute for Protein Architecture';
+export const DEMO_PASSWORD = 'foldfolio-demo';
+export const DEMO_PEOPLE: ReadonlyArray<{
+  email: string;
+  displayName: string;
+  siteRole: SiteRole;
+  role: MembershipRole;
+}> = [
+  {
+    email: 'ada.quarrington@tarnwick.example',
+    displayName: 'Ada Quarrington',
+    siteRole: 'admin',
+    role: 'owner',
+  },
+  {
+    email: 'bastian.fernvale@tarnwick.example',
+    displayName: 'Bastian Fernvale',
+    siteRole: 'user',
+    role: 'editor',
+  },
+  {
+    email: 'cleo.mirrowin@tarnwick.example',
+    displayName: 'Cleo Mirrowin',
+    siteRole: 'user',
+    role: 'commenter',
+  },
+];
+export const DEMO_TITLE =
+  'Crystal structure of FdrQ, an invented flavin reductase from the Tarnwick hot-spring metagenome';
+
+/** Seeds the demo data for `npm start`; running it again changes nothing. */
+@Injectable()
+export class DemoSeedService {
+  private readonly log = new Logger('DemoSeed');
+
+  constructor(
+    @Inject(APP_CONFIG) private readonly cfg: AppConfig,
+    @InjectDataSource() private readonly db: DataSource,
+  ) {}
+
+  async seed(): Promise<void> {
+    const created = await this.db.transaction(async (m) => {
+      // Serialise concurrent seeders on one named lock (two `npm start`s at once).
+      await m.query("SELECT GET_LOCK('foldfolio_demo_seed', 30)");
+      try {
+        let added = 0;
+        const ids: string[] = [];
+        for (const p of DEMO_PEOPLE) {
+          const existing = await m.findOneBy(User, { email: p.email });
+          if (existing) {
+            ids.push(existing.id);
+            continue;
+          }
+          const id = newId();
+          await m.insert(User, {
+            id,
+            email: p.email,
+            displayName: p.displayName,
+            passwordHash: await hashPassword(DEMO_PASSWORD, this.cfg.bcryptCost),
+            siteRole: p.siteRole,
+            tokenVersion: 0,
+          });
+          ids.push(id);
+          added++;
+        }
+        const owner = ids[0];
+        const has: Array<{ id: string }> = await m.query(
+          'SELECT ms.id FROM manuscripts ms JOIN memberships mb ON mb.manuscript_id = ms.id WHERE ms.title = ? AND mb.user_id = ? LIMIT 1',
+          [DEMO_TITLE, owner],
+        );
+        if (has.length === 0) {
+          const msId = newId();
+          await m.insert(Manuscript, {
+            id: msId,
+            title: DEMO_TITLE,
+            status: 'active',
+            createdBy: owner,
+            lastActivityAt: new Date(),
+          });
+          for (let k = 0; k < DEMO_PEOPLE.length; k++) {
+            await m.insert(Membership, {
+              id: newId(),
+              manuscriptId: msId,
+              userId: ids[k],
+              role: DEMO_PEOPLE[k].role,
+            });
+          }
+          added++;
+        }
+        return added;
+      } finally {
+        await m.query("SELECT RELEASE_LOCK('foldfolio_demo_seed')");
+      }
+    });
+    this.log.log(
+      created > 0
+        ? `demo data seeded (${DEMO_LAB}; sign in as ${DEMO_PEOPLE[0].email} / ${DEMO_PASSWORD})`
+        : 'demo data already present',
+    );
+  }
+}
