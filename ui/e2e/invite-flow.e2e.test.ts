@@ -29,8 +29,17 @@ async function newPage(ctx: BrowserContext): Promise<Page> {
   return page;
 }
 
-const shot = (page: Page, name: string) =>
-  page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+async function shot(page: Page, name: string): Promise<void> {
+  // let dialog and toast transitions finish so the picture shows the settled screen
+  await page.waitForFunction(
+    () => !document.querySelector('[class*="-enter-active"], [class*="-exit-active"]'),
+  );
+  await page.screenshot({
+    path: join(SCREENSHOTS, `${name}.png`),
+    fullPage: true,
+    animations: 'disabled',
+  });
+}
 
 async function register(page: Page, who: typeof OWNER): Promise<void> {
   await page.getByLabel('Your name').fill(who.name);

@@ -9,6 +9,7 @@ import { Loading } from '../components/Loading';
 import { Problem } from '../components/Problem';
 import { formatDateTime, ROLE_LABELS } from '../hooks/format';
 import { useDocumentTitle } from '../hooks/useDocumentTitle';
+import { useElementWidth } from '../hooks/useElementWidth';
 
 type SortKey = 'title' | 'role' | 'memberCount' | 'lastActivityAt';
 type Sort = { key: SortKey; dir: 1 | -1 };
@@ -39,6 +40,10 @@ export function DeskPage() {
   const [creating, setCreating] = useState(false);
   const [showArchived, setShowArchived] = useState(false);
   const [sort, setSort] = useState<Sort>({ key: 'lastActivityAt', dir: -1 });
+  const [frameRef, frameWidth] = useElementWidth<HTMLDivElement>(1000);
+  // fixed widths for the short columns; the title takes the rest of the frame
+  const fixed = [140, 110, 200];
+  const titleWidth = Math.max(260, frameWidth - fixed.reduce((a, b) => a + b, 0) - 2);
 
   const rows = useMemo(() => {
     const all = manuscripts.data ?? [];
@@ -123,7 +128,7 @@ export function DeskPage() {
               />
             )}
           </div>
-          <div className="ff-table-frame" data-testid="desk-table">
+          <div className="ff-table-frame" data-testid="desk-table" ref={frameRef}>
             <Table2
               numRows={rows.length}
               enableRowHeader={false}
@@ -131,7 +136,7 @@ export function DeskPage() {
               enableFocusedCell={false}
               selectionModes={[]}
               defaultRowHeight={36}
-              columnWidths={[440, 140, 110, 200]}
+              columnWidths={[titleWidth, ...fixed]}
               cellRendererDependencies={[rows]}
             >
               <Column
