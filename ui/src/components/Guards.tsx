@@ -4,12 +4,6 @@ import { Navigate, useLocation } from 'react-router';
 import { useAuth } from '../hooks/useAuth';
 import { Loading } from './Loading';
 
-/** Where to go after signing in: only same-site paths, so a crafted link cannot send users away. */
-export function safeNext(next: string | null | undefined, fallback = '/desk'): string {
-  if (!next || !next.startsWith('/') || next.startsWith('//')) return fallback;
-  return next;
-}
-
 export function RequireSignedIn({ children }: { children: ReactNode }) {
   const auth = useAuth();
   const location = useLocation();

@@ -1,7 +1,6 @@
 import { useMemo, useState } from 'react';
 import { Button, Icon, NonIdealState, Switch, Tag } from '@blueprintjs/core';
 import { Cell, Column, ColumnHeaderCell, Table2 } from '@blueprintjs/table';
-import type { ManuscriptDto, MembershipRole } from '@foldfolio/shared';
 import { Link } from 'react-router';
 import { useManuscripts } from '../api/manuscripts';
 import { CreateManuscriptDialog } from '../components/CreateManuscriptDialog';
@@ -10,29 +9,7 @@ import { Problem } from '../components/Problem';
 import { formatDateTime, ROLE_LABELS } from '../hooks/format';
 import { useDocumentTitle } from '../hooks/useDocumentTitle';
 import { useElementWidth } from '../hooks/useElementWidth';
-
-type SortKey = 'title' | 'role' | 'memberCount' | 'lastActivityAt';
-type Sort = { key: SortKey; dir: 1 | -1 };
-
-// owners first: the manuscripts a person is responsible for come before those they only read
-const ROLE_ORDER: Record<MembershipRole, number> = {
-  owner: 0,
-  editor: 1,
-  commenter: 2,
-  reviewer: 3,
-};
-
-const compare: Record<SortKey, (a: ManuscriptDto, b: ManuscriptDto) => number> = {
-  title: (a, b) => a.title.localeCompare(b.title, 'en', { sensitivity: 'base', numeric: true }),
-  role: (a, b) => ROLE_ORDER[a.role] - ROLE_ORDER[b.role],
-  memberCount: (a, b) => a.memberCount - b.memberCount,
-  lastActivityAt: (a, b) => a.lastActivityAt.localeCompare(b.lastActivityAt),
-};
-
-export function sortManuscripts(rows: ManuscriptDto[], sort: Sort): ManuscriptDto[] {
-  // ties fall back to the id so the order never depends on the server's
-  return [...rows].sort((a, b) => sort.dir * compare[sort.key](a, b) || a.id.localeCompare(b.id));
-}
+import { nextSort, sortManuscripts, type Sort, type SortKey } from './deskSort';
 
 export function DeskPage() {
   useDocumentTitle('Desk');
@@ -58,12 +35,7 @@ export function DeskPage() {
           type="button"
           className="ff-sort-button"
           aria-label={`Sort by ${label}`}
-          onClick={() =>
-            setSort((s) => ({
-              key,
-              dir: s.key === key ? (s.dir === 1 ? -1 : 1) : key === 'lastActivityAt' ? -1 : 1,
-            }))
-          }
+          onClick={() => setSort((s) => nextSort(s, key))}
         >
           {label}
           <Icon

@@ -3,7 +3,8 @@ import { Button, FormGroup, InputGroup } from '@blueprintjs/core';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { useRegister } from '../api/auth';
 import { AuthLayout } from '../components/AuthLayout';
-import { RedirectIfSignedIn, safeNext } from '../components/Guards';
+import { RedirectIfSignedIn } from '../components/Guards';
+import { safeNext } from './paths';
 import { Problem } from '../components/Problem';
 import { useDocumentTitle } from '../hooks/useDocumentTitle';
 

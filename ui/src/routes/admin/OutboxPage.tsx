@@ -4,21 +4,7 @@ import { useOutbox, useOutboxMessage } from '../../api/admin';
 import { Loading } from '../../components/Loading';
 import { Problem } from '../../components/Problem';
 import { formatDateTime } from '../../hooks/format';
-
-// Links in our own mails point at these pages; they open inside the app whatever host name the
-// mail was written with (the service's public URL may differ from the address in the browser).
-const APP_LINK = /^\/(invitations|reset-password)\/[^/?#]+$/;
-
-export function appPathOf(href: string, origin: string): string | null {
-  try {
-    const url = new URL(href, origin);
-    if (url.protocol !== 'http:' && url.protocol !== 'https:') return null;
-    if (APP_LINK.test(url.pathname)) return url.pathname;
-    return url.origin === origin ? url.pathname + url.search : null;
-  } catch {
-    return null;
-  }
-}
+import { appPathOf } from '../paths';
 
 export function OutboxPage() {
   const { messageId } = useParams();
