@@ -12,3 +12,6 @@ export * from './model/conformers';
 export * from './geometry/vec';
 export * from './geometry/torsion';
 export * from './validation/torsions';
+export * from './report/build';
+export { ENGINE_VERSION } from './report/version';
+export { sha256Hex } from './report/sha256';

@@ -12,6 +12,8 @@ import { ResidueKind } from './types';
 
 /** C(i-1)–N(i) longer than this is a chain break (common practice, no source). */
 export const PEPTIDE_BREAK_A = 2.0;
+/** CA(i-1)–CA(i) longer than this is a break when C/N are absent (common practice, no source). */
+export const CA_BREAK_A = 4.2;
 
 export interface ConformerTable {
   count: number;
@@ -28,7 +30,10 @@ export interface ConformerTable {
   /** conformer of the previous / next residue of the same polymer chain, -1 at ends and breaks */
   prev: Int32Array;
   next: Int32Array;
-  /** 1 when the residue follows a chain break (C(i-1)–N(i) > 2.0 Å, or atoms missing to tell) */
+  /**
+   * 1 when the residue follows a chain break: C(i-1)–N(i) > 2.0 Å; when C or N is absent,
+   * CA(i-1)–CA(i) > 4.2 Å; when those are absent too, always
+   */
   breakBefore: Uint8Array;
   /** first conformer index of each residue and the count (residue → conformers) */
   firstOfResidue: Int32Array;
@@ -132,7 +137,7 @@ function dist2(model: Model, i: number, j: number): number {
   return dx * dx + dy * dy + dz * dz;
 }
 
-/** Pick the neighbour's conformer to pair with altloc `alt`: same altloc, else its first. */
+/** Pick the neighbour position's conformer to pair with altloc `alt`: same altloc, else its first. */
 function matchConformer(first: number, count: number, altOf: Int32Array, alt: number): number {
   if (alt !== 0) {
     for (let q = first; q < first + count; q++) if (altOf[q] === alt) return q;
@@ -193,23 +198,50 @@ export function buildConformers(structure: Structure, model: Model): ConformerTa
     if (idxO >= 0) t.o[k] = findAtom(model, r, idxO, a);
     if (idxCB >= 0) t.cb[k] = findAtom(model, r, idxCB, a);
   }
-  const { chain, kind } = model.residues;
+  const { chain, kind, authSeq, icode } = model.residues;
   const maxD2 = PEPTIDE_BREAK_A * PEPTIDE_BREAK_A;
-  for (let r = 1; r < nr; r++) {
-    if (chain[r] !== chain[r - 1]) continue;
-    if (!peptideLinkable(kind[r], kind[r - 1])) continue;
-    for (let k = firstOfResidue[r]; k < firstOfResidue[r] + countOfResidue[r]; k++) {
-      const p = matchConformer(firstOfResidue[r - 1], countOfResidue[r - 1], t.altloc, t.altloc[k]);
+  // Microheterogeneity: consecutive residues of one chain sharing auth_seq_id + icode (different
+  // components at one position, e.g. PRO altloc A / SER altloc B) form one position; neighbours
+  // link position to position, so the alternatives never link to each other.
+  const posStart: number[] = [];
+  for (let r = 0; r < nr; r++) {
+    const same =
+      r > 0 &&
+      chain[r] === chain[r - 1] &&
+      authSeq[r] === authSeq[r - 1] &&
+      icode[r] === icode[r - 1];
+    if (!same) posStart.push(r);
+  }
+  posStart.push(nr);
+  for (let g = 1; g + 1 < posStart.length; g++) {
+    const r0 = posStart[g];
+    const r1 = posStart[g + 1];
+    const q0 = posStart[g - 1];
+    if (chain[r0] !== chain[q0]) continue;
+    // conformers of a position are contiguous: residues are, and each residue's conformers are
+    const prevFirst = firstOfResidue[q0];
+    const prevCount = firstOfResidue[r0] - prevFirst;
+    const hereFirst = firstOfResidue[r0];
+    const hereCount = (r1 < nr ? firstOfResidue[r1] : count) - hereFirst;
+    for (let k = hereFirst; k < hereFirst + hereCount; k++) {
+      const p = matchConformer(prevFirst, prevCount, t.altloc, t.altloc[k]);
+      if (!peptideLinkable(kind[t.residue[k]], kind[t.residue[p]])) continue;
       const cPrev = t.c[p];
       const nHere = t.n[k];
-      if (cPrev >= 0 && nHere >= 0 && dist2(model, cPrev, nHere) <= maxD2) {
-        t.prev[k] = p;
+      if (cPrev >= 0 && nHere >= 0) {
+        if (dist2(model, cPrev, nHere) <= maxD2) t.prev[k] = p;
+        else t.breakBefore[k] = 1;
+      } else if (t.ca[p] >= 0 && t.ca[k] >= 0) {
+        // no C/N to test (CA-only models): consecutive CAs of a trans peptide are ~3.8 Å apart,
+        // so > 4.2 Å is a break (common practice, no source)
+        if (dist2(model, t.ca[p], t.ca[k]) > CA_BREAK_A * CA_BREAK_A) t.breakBefore[k] = 1;
       } else {
         t.breakBefore[k] = 1;
       }
     }
-    for (let p = firstOfResidue[r - 1]; p < firstOfResidue[r - 1] + countOfResidue[r - 1]; p++) {
-      const k = matchConformer(firstOfResidue[r], countOfResidue[r], t.altloc, t.altloc[p]);
+    for (let p = prevFirst; p < prevFirst + prevCount; p++) {
+      const k = matchConformer(hereFirst, hereCount, t.altloc, t.altloc[p]);
+      if (!peptideLinkable(kind[t.residue[k]], kind[t.residue[p]])) continue;
       const cPrev = t.c[p];
       const nHere = t.n[k];
       if (cPrev >= 0 && nHere >= 0 && dist2(model, cPrev, nHere) <= maxD2) t.next[p] = k;

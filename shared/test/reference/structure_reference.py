@@ -43,11 +43,34 @@ def connected(prev_c, n):
     return prev_c is not None and n is not None and prev_c.pos.dist(n.pos) <= 2.0
 
 
-def neighbour_alt(res, alt):
-    alts = altlocs(res)
-    if alt and alt in alts:
-        return alt
-    return alts[0] if alts else ""
+def conformers_of(position):
+    """(residue, altloc) pairs of one sequence position, residues in file order, altlocs sorted."""
+    out = []
+    for res in position:
+        alts = altlocs(res)
+        out.extend((res, a) for a in (alts or [""]))
+    return out
+
+
+def neighbour(position, alt):
+    """Conformer of a neighbouring position paired with altloc `alt`: same altloc, else its first."""
+    confs = conformers_of(position)
+    if alt:
+        for res, a in confs:
+            if a == alt:
+                return res, a
+    return confs[0]
+
+
+def positions(chain):
+    """Consecutive residues sharing seqid (microheterogeneity) form one position."""
+    out = []
+    for res in chain:
+        if out and out[-1][0].seqid == res.seqid:
+            out[-1].append(res)
+        else:
+            out.append([res])
+    return out
 
 
 def model_info(model):
@@ -59,7 +82,7 @@ def model_info(model):
     for ch in model:
         info = chains.setdefault(ch.name, {"residues": 0, "atoms": 0})
         info["residues"] += len(ch)
-        for i, res in enumerate(ch):
+        for res in ch:
             info["atoms"] += len(res)
             for a in res:
                 if a.altloc != "\0":
@@ -74,31 +97,38 @@ def model_info(model):
                 kinds["aminoAcid"] += 1
             if info_t is not None and info_t.is_nucleic_acid():
                 kinds["nucleic"] += 1
-            prev = ch[i - 1] if i > 0 else None
-            nxt = ch[i + 1] if i + 1 < len(ch) else None
-            alts = altlocs(res) or [""]
-            for alt in alts:
+        pos = positions(ch)
+        for gi, group in enumerate(pos):
+            prev = pos[gi - 1] if gi > 0 else None
+            nxt = pos[gi + 1] if gi + 1 < len(pos) else None
+            for res, alt in conformers_of(group):
+                if res.is_water():
+                    continue
                 n, ca, c = pick(res, "N", alt), pick(res, "CA", alt), pick(res, "C", alt)
                 phi = psi = omega = None
-                if prev is not None and not prev.is_water():
-                    pc = pick(prev, "C", neighbour_alt(prev, alt))
-                    if connected(pc, n):
+                if prev is not None:
+                    pres, palt = neighbour(prev, alt)
+                    pc = pick(pres, "C", palt)
+                    if not pres.is_water() and connected(pc, n):
                         phi = dihedral(pc, n, ca, c)
-                if nxt is not None and not nxt.is_water():
-                    na = neighbour_alt(nxt, alt)
-                    nn, nca = pick(nxt, "N", na), pick(nxt, "CA", na)
-                    if connected(c, nn):
+                if nxt is not None:
+                    nres, nalt = neighbour(nxt, alt)
+                    nn, nca = pick(nres, "N", nalt), pick(nres, "CA", nalt)
+                    if not nres.is_water() and connected(c, nn):
                         psi = dihedral(n, ca, c, nn)
                         omega = dihedral(ca, c, nn, nca)
                 row = {
                     "chain": ch.name, "seq": res.seqid.num, "icode": res.seqid.icode.strip(),
                     "name": res.name, "altloc": alt, "phi": phi, "psi": psi, "omega": omega,
                 }
-                if len(alts) == 1 and alt == "" and prev is not None and nxt is not None:
-                    # gemmi's own backbone functions (no altlocs in this residue)
-                    p, s = gemmi.calculate_phi_psi(prev, res, nxt)
-                    row["gemmiPhi"], row["gemmiPsi"] = deg(p), deg(s)
-                    row["gemmiOmega"] = deg(gemmi.calculate_omega(res, nxt))
+                if (
+                    alt == "" and prev is not None and nxt is not None
+                    and len(prev) == 1 and len(nxt) == 1 and len(group) == 1
+                ):
+                    # gemmi's own backbone functions (no altlocs or microheterogeneity here)
+                    p, s_ = gemmi.calculate_phi_psi(prev[0], res, nxt[0])
+                    row["gemmiPhi"], row["gemmiPsi"] = deg(p), deg(s_)
+                    row["gemmiOmega"] = deg(gemmi.calculate_omega(res, nxt[0]))
                 rows.append(row)
     return {"chains": chains, "altlocAtoms": altloc_atoms, "hydrogens": hydrogens, "kinds": kinds, "rows": rows}
 
