@@ -14,6 +14,7 @@ import { ManuscriptRoleGuard } from './manuscripts/manuscript-roles.js';
 import { ManuscriptsModule } from './manuscripts/manuscripts.module.js';
 import { DemoSeedService } from './seed/demo-seed.service.js';
 import { UsersModule } from './users/users.module.js';
+import { ModelsModule } from './models/models.module.js';
 
 @Module({})
 export class AppModule {
@@ -31,6 +32,7 @@ export class AppModule {
         InvitationsModule,
         AdminModule,
         HealthModule,
+        ModelsModule,
       ],
       providers: [
         // Order matters: first who you are (JWT), then what you may do on a manuscript.

@@ -8,6 +8,11 @@ import { Manuscript } from './manuscripts/manuscript.entity.js';
 import { Membership } from './manuscripts/membership.entity.js';
 import { Foundation1764680000000 } from './migrations/1764680000000-Foundation.js';
 import { User } from './users/user.entity.js';
+import { ModelVersion } from './models/model-version.entity.js';
+import { Analysis } from './analyses/analysis.entity.js';
+import { Comment } from './comments/comment.entity.js';
+import { NotificationMute } from './notifications/notification-mute.entity.js';
+import { Workflow1764690000000 } from './migrations/1764690000000-Workflow.js';
 
 /** Every entity and migration, listed explicitly so the build and ts-jest see the same set. */
 export const ENTITIES = [
@@ -18,8 +23,12 @@ export const ENTITIES = [
   Membership,
   Invitation,
   MailMessage,
+  ModelVersion,
+  Analysis,
+  Comment,
+  NotificationMute,
 ];
-export const MIGRATIONS = [Foundation1764680000000];
+export const MIGRATIONS = [Foundation1764680000000, Workflow1764690000000];
 
 /** MariaDB over mysql2; the schema comes only from migrations (synchronize stays off). */
 export function dataSourceOptions(cfg: AppConfig): DataSourceOptions {

@@ -1,0 +1,26 @@
+// The analysis worker process: `node service/dist/worker.js`. Start as many as you like, on
+// this machine or others, against the same Redis and MariaDB (see DEVELOPERS.md).
+import { Logger } from '@nestjs/common';
+import { loadConfig } from './config/app-config.js';
+import { startAnalysisWorker } from './analyses/worker-runtime.js';
+
+const log = new Logger('Worker');
+const cfg = loadConfig();
+const running = await startAnalysisWorker(cfg);
+log.log(
+  `analysis worker ${process.pid} listening on Redis ${cfg.redis.host}:${cfg.redis.port}, database ${cfg.db.database}`,
+);
+running.worker.on('completed', (job) => log.log(`analysis of version ${job.id} done`));
+running.worker.on('failed', (job, err) =>
+  log.warn(`analysis of version ${job?.id} failed: ${err.message}`),
+);
+
+let stopping = false;
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.on(signal, () => {
+    if (stopping) return;
+    stopping = true;
+    // finish (or hand back) the current job, then leave
+    void running.close().then(() => process.exit(0));
+  });
+}
