@@ -17,6 +17,7 @@ import type { TorsionTable } from '../validation/torsions';
 import { readStructure } from '../io/read';
 import type { ReadOptions } from '../io/read';
 import { StructureReadError } from '../io/errors';
+import { ensembleStep, GEOMETRY_MODEL_ANALYSES } from '../validation/geometry-analyses';
 import { sha256Hex } from './sha256';
 import { ENGINE_VERSION } from './version';
 import { REPORT_SCHEMA } from './types';
@@ -86,10 +87,10 @@ export function markComputed(summary: ModelSummary, statistic: string): void {
 }
 
 /** Per-model analyses, in order. Add yours here (see DEVELOPERS.md). */
-export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [];
+export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [...GEOMETRY_MODEL_ANALYSES];
 
 /** Report-wide analyses (after every model), in order. */
-export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [];
+export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [ensembleStep];
 
 /** Angle for JSON: degrees rounded to 0.001°, null where undefined. */
 function angle(v: number): number | null {
