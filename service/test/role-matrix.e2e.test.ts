@@ -1,0 +1,186 @@
+import { createHash, randomUUID } from 'node:crypto';
+import { type ExecutionContext, ForbiddenException } from '@nestjs/common';
+import request from 'supertest';
+import { ManuscriptRoleGuard } from '../src/manuscripts/manuscript-roles.js';
+import { type Account, register, startTestApp, type TestApp } from './helpers/test-app.js';
+
+/**
+ * Every manuscript route × every role (+ a signed-in non-member, + anonymous).
+ * Expected: allowed roles get 2xx, other members 403, non-members 404 (the manuscript's
+ * existence is not revealed), anonymous callers 401.
+ * The first test fails when a route with `:manuscriptId` exists without an entry here:
+ * add one for every new manuscript route.
+ */
+
+type Role = 'owner' | 'editor' | 'commenter' | 'reviewer';
+const ROLES: Role[] = ['owner', 'editor', 'commenter', 'reviewer'];
+const ALL: Role[] = ROLES;
+
+interface Fixture {
+  manuscriptId: string;
+  users: Record<Role | 'coOwner' | 'outsider', Account>;
+}
+interface Call {
+  params?: Record<string, string>;
+  body?: Record<string, unknown>;
+}
+interface Entry {
+  allowed: Role[];
+  /** Builds the parameters and body of a call that succeeds for an allowed role. */
+  prepare?: (fx: Fixture, t: TestApp) => Promise<Call> | Call;
+}
+
+const MATRIX: Record<string, Entry> = {
+  'GET /api/manuscripts/:manuscriptId': { allowed: ALL },
+  'PATCH /api/manuscripts/:manuscriptId': {
+    allowed: ['owner', 'editor'],
+    prepare: () => ({ body: { title: 'Renamed in the matrix' } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/archive': { allowed: ['owner'] },
+  'POST /api/manuscripts/:manuscriptId/restore': { allowed: ['owner'] },
+  'GET /api/manuscripts/:manuscriptId/members': { allowed: ALL },
+  'PATCH /api/manuscripts/:manuscriptId/members/:userId': {
+    allowed: ['owner'],
+    prepare: (fx) => ({ params: { userId: fx.users.reviewer.id }, body: { role: 'commenter' } }),
+  },
+  'DELETE /api/manuscripts/:manuscriptId/members/:userId': {
+    allowed: ['owner'],
+    prepare: (fx) => ({ params: { userId: fx.users.reviewer.id } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/leave': { allowed: ALL },
+  'GET /api/manuscripts/:manuscriptId/invitations': { allowed: ['owner'] },
+  'POST /api/manuscripts/:manuscriptId/invitations': {
+    allowed: ['owner'],
+    prepare: () => ({
+      body: { email: `m${randomUUID().slice(0, 8)}@lab.example`, role: 'reviewer' },
+    }),
+  },
+  'DELETE /api/manuscripts/:manuscriptId/invitations/:invitationId': {
+    allowed: ['owner'],
+    prepare: async (fx, t) => {
+      const id = randomUUID();
+      await t.db.query(
+        `INSERT INTO invitations (id, manuscript_id, email, role, token_hash, expires_at)
+         VALUES (?, ?, 'x@lab.example', 'reviewer', ?, NOW(3) + INTERVAL 1 DAY)`,
+        [id, fx.manuscriptId, createHash('sha256').update(id).digest('hex')],
+      );
+      return { params: { invitationId: id } };
+    },
+  },
+};
+
+let t: TestApp;
+let users: Fixture['users'];
+beforeAll(async () => {
+  t = await startTestApp();
+  const [owner, coOwner, editor, commenter, reviewer, outsider] = [
+    await register(t, 'Owner'),
+    await register(t, 'Coowner'),
+    await register(t, 'Editor'),
+    await register(t, 'Commenter'),
+    await register(t, 'Reviewer'),
+    await register(t, 'Outsider'),
+  ];
+  users = { owner, coOwner, editor, commenter, reviewer, outsider };
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+/** Every route registered on the Express app whose path has a :manuscriptId. */
+function manuscriptRoutes(): string[] {
+  const express = t.app.getHttpAdapter().getInstance() as {
+    router: { stack: Array<{ route?: { path: string; methods: Record<string, boolean> } }> };
+  };
+  const out: string[] = [];
+  for (const layer of express.router.stack) {
+    if (!layer.route || !layer.route.path.includes(':manuscriptId')) continue;
+    for (const m of Object.keys(layer.route.methods)) {
+      if (m !== '_all') out.push(`${m.toUpperCase()} ${layer.route.path}`);
+    }
+  }
+  return out.sort();
+}
+
+/** A fresh manuscript where every role (and a second owner) is held by its own account. */
+async function fixture(): Promise<Fixture> {
+  const manuscriptId = randomUUID();
+  await t.db.query(
+    "INSERT INTO manuscripts (id, title, status, created_by) VALUES (?, 'Matrix', 'active', ?)",
+    [manuscriptId, users.owner.id],
+  );
+  const holders: Array<[Account, Role]> = [
+    [users.owner, 'owner'],
+    [users.coOwner, 'owner'],
+    [users.editor, 'editor'],
+    [users.commenter, 'commenter'],
+    [users.reviewer, 'reviewer'],
+  ];
+  for (const [a, role] of holders) {
+    await t.db.query(
+      'INSERT INTO memberships (id, manuscript_id, user_id, role) VALUES (UUID(), ?, ?, ?)',
+      [manuscriptId, a.id, role],
+    );
+  }
+  return { manuscriptId, users };
+}
+
+test('every manuscript route has an entry in the role matrix, and every entry is a route', () => {
+  const routes = manuscriptRoutes();
+  expect(routes.length).toBeGreaterThan(0);
+  const missing = routes.filter((r) => !(r in MATRIX));
+  const stale = Object.keys(MATRIX).filter((k) => !routes.includes(k));
+  expect({ missing, stale }).toEqual({ missing: [], stale: [] });
+});
+
+type Actor = Role | 'non-member' | 'anonymous';
+const ACTORS: Actor[] = [...ROLES, 'non-member', 'anonymous'];
+
+describe.each(Object.keys(MATRIX))('%s', (route) => {
+  test.each(ACTORS)('as %s', async (actor) => {
+    const entry = MATRIX[route];
+    const fx = await fixture();
+    const call = (await entry.prepare?.(fx, t)) ?? {};
+    const [method, pattern] = route.split(' ');
+    const params: Record<string, string> = { manuscriptId: fx.manuscriptId, ...call.params };
+    const path = pattern.replace(/:(\w+)/g, (_, name: string) => params[name]);
+    let req = request(t.server)[method.toLowerCase() as 'get' | 'post' | 'patch' | 'delete'](path);
+    const account =
+      actor === 'anonymous' ? null : actor === 'non-member' ? users.outsider : users[actor];
+    if (account) req = req.set('Authorization', `Bearer ${account.token}`);
+    const res = await (call.body ? req.send(call.body) : req);
+
+    const expected =
+      actor === 'anonymous'
+        ? 401
+        : actor === 'non-member'
+          ? 404
+          : entry.allowed.includes(actor)
+            ? '2xx'
+            : 403;
+    const got = res.status >= 200 && res.status < 300 ? '2xx' : res.status;
+    expect({ route, actor, status: got }).toEqual({ route, actor, status: expected });
+    if (typeof expected === 'number') expect(typeof res.body.message).toBe('string');
+  });
+});
+
+test('a manuscript route without @ManuscriptRoles is refused (fail closed)', async () => {
+  const guard = t.app.get(ManuscriptRoleGuard);
+  const fx = await fixture();
+  class Undecorated {
+    handler(): void {}
+  }
+  const owner = await t.db.query('SELECT * FROM users WHERE id = ?', [users.owner.id]);
+  const req = {
+    params: { manuscriptId: fx.manuscriptId },
+    user: owner[0],
+    method: 'GET',
+    path: '/x',
+  };
+  const ctx = {
+    switchToHttp: () => ({ getRequest: () => req }),
+    getHandler: () => Undecorated.prototype.handler,
+    getClass: () => Undecorated,
+  } as unknown as ExecutionContext;
+  await expect(guard.canActivate(ctx)).rejects.toBeInstanceOf(ForbiddenException);
+});
