@@ -31,6 +31,7 @@ export async function analyse(job: EngineJob): Promise<Report> {
         fraction?: number;
         json?: string;
         message?: string;
+        name?: string;
       }) => {
         if (msg.kind === 'stage' && msg.stage) job.onStage(msg.stage, msg.fraction ?? 0);
         else if (msg.kind === 'done' && msg.json !== undefined) {
@@ -39,7 +40,9 @@ export async function analyse(job: EngineJob): Promise<Report> {
           void thread.terminate();
         } else if (msg.kind === 'error') {
           settled = true;
-          reject(new Error(msg.message));
+          const err = new Error(msg.message);
+          err.name = msg.name ?? 'Error';
+          reject(err);
           void thread.terminate();
         }
       },

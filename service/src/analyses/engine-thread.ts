@@ -21,5 +21,6 @@ runEngine(input.bytes, {
     parentPort?.postMessage({
       kind: 'error',
       message: err instanceof Error ? err.message : String(err),
+      name: err instanceof Error ? err.name : 'Error',
     }),
 );

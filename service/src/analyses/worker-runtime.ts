@@ -78,7 +78,18 @@ export async function processAnalysis(
     void job.updateProgress({ stage, progress: pct }).catch(() => undefined);
   };
 
-  const report = await analyse({ bytes, filename, sha256, onStage: setStage });
+  const pause = Number(process.env.FOLDFOLIO_WORKER_PAUSE_MS ?? 0);
+  // Fault-injection pause (the crash test kills a worker here, mid-analysis); 0 in production.
+  if (pause > 0) await new Promise((r) => setTimeout(r, pause));
+  let report;
+  try {
+    report = await analyse({ bytes, filename, sha256, onStage: setStage });
+  } catch (err) {
+    // The engine refusing the file is final: retrying the same bytes gives the same answer.
+    if ((err as Error).name === 'StructureReadError')
+      throw new UnrecoverableError((err as Error).message);
+    throw err;
+  }
   setStage('store', 0);
   const json = JSON.stringify(report);
   const gz = gzipSync(Buffer.from(json, 'utf8'), { level: 9 });
