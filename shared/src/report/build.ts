@@ -18,6 +18,7 @@ import { readStructure } from '../io/read';
 import type { ReadOptions } from '../io/read';
 import { StructureReadError } from '../io/errors';
 import { ensembleStep, GEOMETRY_MODEL_ANALYSES } from '../validation/geometry-analyses';
+import { referenceStep, VERDICT_MODEL_ANALYSES } from '../validation/verdict-analyses';
 import { sha256Hex } from './sha256';
 import { ENGINE_VERSION } from './version';
 import { REPORT_SCHEMA } from './types';
@@ -87,10 +88,13 @@ export function markComputed(summary: ModelSummary, statistic: string): void {
 }
 
 /** Per-model analyses, in order. Add yours here (see DEVELOPERS.md). */
-export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [...GEOMETRY_MODEL_ANALYSES];
+export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [
+  ...GEOMETRY_MODEL_ANALYSES,
+  ...VERDICT_MODEL_ANALYSES,
+];
 
 /** Report-wide analyses (after every model), in order. */
-export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [ensembleStep];
+export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [ensembleStep, referenceStep];
 
 /** Angle for JSON: degrees rounded to 0.001°, null where undefined. */
 function angle(v: number): number | null {
