@@ -37,6 +37,8 @@ export function formatSummary(report: Report, filename: string): string {
   lines.push(
     `engine ${report.engine.version}, ${report.schema}; ${count(report.models.length, 'model')} analysed`,
   );
+  if (report.reference)
+    lines.push(`reference ${report.reference.id} (sha256 ${report.reference.sha256})`);
   for (const m of report.models) {
     const c = m.summary.composition;
     lines.push('');
@@ -77,6 +79,25 @@ export function formatSummary(report: Report, filename: string): string {
         `  Ramachandran: ${o.favored} favored, ${o.allowed} allowed, ${o.outlier} outliers of ${o.total}`,
       );
     }
+    if (s.rama) {
+      for (const [cls, c] of Object.entries(s.rama.byClass))
+        lines.push(
+          `    ${cls}: ${c.favored} favored, ${c.allowed} allowed, ${c.outlier} outliers of ${c.total}`,
+        );
+      const steric: Record<string, number> = {};
+      for (const r of m.residues) if (r.steric) steric[r.steric] = (steric[r.steric] ?? 0) + 1;
+      lines.push(
+        `  hard-sphere steric map: ${steric['full'] ?? 0} fully allowed, ${steric['outer-limit'] ?? 0} outer limit, ${steric['disallowed'] ?? 0} disallowed`,
+      );
+    }
+    if (s.rotamers)
+      lines.push(
+        `  rotamers: ${s.rotamers.favored} favored, ${s.rotamers.allowed} allowed, ${s.rotamers.outlier} outliers of ${s.rotamers.total}`,
+      );
+    if (s.overlaps)
+      lines.push(
+        `  all-atom overlaps: ${s.overlaps.severe} severe (≥ 0.4 Å), ${s.overlaps.perThousandAtoms} per 1000 atoms; hydrogens ${s.overlaps.hydrogens}, ${s.overlaps.xhConvention} X–H lengths`,
+      );
     for (const n of s.notComputed) lines.push(`  not computed (${n.statistic}): ${n.reason}`);
   }
   for (const c of report.cautions) lines.push(`caution: ${c}`);
