@@ -5,6 +5,7 @@
  * Add a subcommand: one entry in COMMANDS (name → runner returning the exit code).
  */
 import { runReportCommand, REPORT_USAGE } from '@foldfolio/shared/dist/cli/report.js';
+import { FIGURES_USAGE, runFiguresCommand } from '../figures/cli.js';
 
 type Runner = (
   args: string[],
@@ -13,6 +14,7 @@ type Runner = (
 
 const COMMANDS: Record<string, { run: Runner; usage: string }> = {
   report: { run: runReportCommand, usage: REPORT_USAGE },
+  figures: { run: runFiguresCommand, usage: FIGURES_USAGE },
 };
 
 function usage(): string {

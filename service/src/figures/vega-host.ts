@@ -42,7 +42,6 @@ export class VegaHost {
         this.pending.clear();
       });
     });
-    worker.unref();
     return this.ready;
   }
 
@@ -52,6 +51,7 @@ export class VegaHost {
     const id = this.nextId++;
     return new Promise<string>((resolve, reject) => {
       this.pending.set(id, { resolve, reject });
+      this.worker!.ref();
       this.worker!.postMessage({ id, spec });
     });
   }

@@ -1,0 +1,275 @@
+/**
+ * Figures rendered from real entries (1A8O X-ray, 2OFG NMR ensemble, 5cvz low resolution),
+ * checked with tools outside the project: Python's XML parser reads the SVG and counts marks,
+ * poppler-utils (pdffonts, pdfinfo, pdftotext) read the PDF.
+ */
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { buildReport, type Report } from '@foldfolio/shared';
+import { svgToPdf, svgToPng } from '../src/figures/export.js';
+import { checkReadiness, deltaE, paletteConflicts, simulate } from '../src/figures/readiness.js';
+import { renderFigure, type RenderedFigure } from '../src/figures/render.js';
+import { listFigureTemplates, loadPreset } from '../src/figures/templates.js';
+import { sharedVegaHost } from '../src/figures/vega-host.js';
+
+const HERE = dirname(fileURLToPath(import.meta.url));
+const ROOT = join(HERE, '../..');
+const FIXTURES = join(ROOT, 'shared/test/fixtures');
+const OUT = mkdtempSync(join(tmpdir(), 'foldfolio-figures-'));
+
+const reports: Record<string, Report> = {};
+const torsion: Record<string, RenderedFigure> = {};
+
+beforeAll(async () => {
+  for (const f of ['1A8O.cif', '2OFG.cif', '5cvz_final.pdb']) {
+    reports[f] = await buildReport(new Uint8Array(readFileSync(join(FIXTURES, f))), {
+      filename: f,
+    });
+    torsion[f] = await renderFigure({
+      report: reports[f],
+      templateId: 'torsion-plot',
+      presetId: 'single',
+    });
+  }
+});
+afterAll(() => sharedVegaHost().close());
+
+function python(script: string, args: string[]): Record<string, Record<string, unknown>> {
+  return JSON.parse(
+    execFileSync('/usr/bin/python3', [join(HERE, 'reference', script), ...args], {
+      encoding: 'utf8',
+      maxBuffer: 1 << 26,
+    }),
+  );
+}
+
+describe('torsion-angle figure', () => {
+  test('SVG parses as XML (Python xml.etree), is 89 mm wide, and every residue with φ/ψ is exactly one mark', () => {
+    const files = Object.entries(torsion).map(([f, fig]) => {
+      const p = join(OUT, `${f}.torsion.svg`);
+      writeFileSync(p, fig.svg);
+      return [f, p] as const;
+    });
+    const checked = python(
+      'svg_check.py',
+      files.map(([, p]) => p),
+    );
+    for (const [f, p] of files) {
+      const rec = checked[p] as {
+        parses: boolean;
+        width: string;
+        height: string;
+        viewBox: string;
+        marks: Record<string, number>;
+      };
+      expect(rec.parses).toBe(true);
+      expect(rec.width).toBe('89mm');
+      const [, , w, h] = rec.viewBox.split(' ').map(Number);
+      expect(parseFloat(rec.height)).toBeCloseTo((h / w) * 89, 2);
+      // first model only (an NMR ensemble draws model 1)
+      const rows = reports[f].models[0].residues.filter((r) => r.phi !== null && r.psi !== null);
+      const drawn =
+        (rec.marks.residue_dot_marks ?? 0) +
+        (rec.marks.residue_open_marks ?? 0) +
+        (rec.marks.residue_outlier_marks ?? 0);
+      expect([f, drawn]).toEqual([f, rows.length]);
+      expect(rows.length).toBeGreaterThan(50);
+    }
+  });
+
+  test('outliers are open diamonds labelled "chain number name"', () => {
+    for (const [f, fig] of Object.entries(torsion)) {
+      const outliers = reports[f].models[0].residues.filter(
+        (r) => r.phi !== null && r.psi !== null && r.rama?.verdict === 'outlier',
+      );
+      for (const r of outliers)
+        expect(fig.svg).toContain(
+          `>${r.chain} ${r.seq}${r.icode}${r.altloc ? ` ${r.altloc}` : ''} ${r.name}<`,
+        );
+    }
+  });
+
+  test('readiness passes for every preset', async () => {
+    for (const preset of ['single', 'one-and-half', 'double']) {
+      const fig = await renderFigure({
+        report: reports['1A8O.cif'],
+        templateId: 'torsion-plot',
+        presetId: preset,
+      });
+      expect([preset, fig.readiness.issues]).toEqual([preset, []]);
+      expect(fig.readiness.widthMm).toBe(loadPreset(preset).widthMm);
+    }
+  });
+});
+
+describe('every template renders for the three fixtures', () => {
+  test('each figure parses, has the preset width and passes the readiness check', async () => {
+    const paths: string[] = [];
+    for (const f of Object.keys(reports)) {
+      for (const t of listFigureTemplates()) {
+        const fig = await renderFigure({
+          report: reports[f],
+          previous: reports[f],
+          templateId: t.manifest.id,
+          presetId: 'single',
+        });
+        const p = join(OUT, `${f}.${t.manifest.id}.svg`);
+        writeFileSync(p, fig.svg);
+        paths.push(p);
+        expect([f, t.manifest.id, fig.readiness.issues]).toEqual([f, t.manifest.id, []]);
+      }
+    }
+    const checked = python('svg_check.py', paths);
+    for (const p of paths)
+      expect([p, checked[p].parses, checked[p].width]).toEqual([p, true, '89mm']);
+  });
+});
+
+describe('PDF and PNG', () => {
+  let pdfPaths: Record<string, string> = {};
+  beforeAll(async () => {
+    const r = reports['1A8O.cif'];
+    pdfPaths = {};
+    for (const id of ['torsion-plot', 'chi-density', 'omega-histogram', 'b-factor-groups']) {
+      const fig = await renderFigure({ report: r, templateId: id, presetId: 'one-and-half' });
+      const p = join(OUT, `${id}.pdf`);
+      writeFileSync(p, await svgToPdf(fig.svg));
+      pdfPaths[id] = p;
+    }
+  });
+
+  test('pdffonts lists every font as embedded', () => {
+    for (const p of Object.values(pdfPaths)) {
+      const lines = execFileSync('pdffonts', [p], { encoding: 'utf8' }).trim().split('\n').slice(2);
+      expect(lines.length).toBeGreaterThan(0);
+      // columns: name type encoding emb sub uni object ID (poppler-utils)
+      for (const l of lines) expect(l.split(/\s+/).slice(-5)[0]).toBe('yes');
+    }
+  });
+
+  test('pdfinfo page size equals the preset to 0.1 mm', () => {
+    const info = execFileSync('pdfinfo', [pdfPaths['torsion-plot']], { encoding: 'utf8' });
+    const m = /Page size:\s+([\d.]+) x ([\d.]+) pts/.exec(info)!;
+    expect(Math.abs((Number(m[1]) / 72) * 25.4 - 120)).toBeLessThan(0.1);
+  });
+
+  test('pdftotext finds φ, ψ, χ, ω, ° and Å', () => {
+    const text = Object.values(pdfPaths)
+      .map((p) => execFileSync('pdftotext', [p, '-'], { encoding: 'utf8' }))
+      .join('\n');
+    for (const s of ['φ', 'ψ', 'χ', 'ω', '°', 'Å'])
+      expect([s, text.includes(s)]).toEqual([s, true]);
+  });
+
+  test('PNG has the width in pixels the dpi asks for', () => {
+    const png = svgToPng(torsion['1A8O.cif'].svg, 300);
+    expect(png.subarray(1, 4).toString('latin1')).toBe('PNG');
+    // IHDR width, big-endian at byte 16 (PNG specification, ISO/IEC 15948)
+    expect(png.readUInt32BE(16)).toBe(Math.round((89 / 25.4) * 300));
+  });
+});
+
+describe('determinism', () => {
+  test('the CLI run twice in separate processes writes identical SVG and PDF bytes', () => {
+    const cli = join(ROOT, 'service/dist/cli/main.js');
+    expect(existsSync(cli)).toBe(true); // scripts/test.sh builds first; else run `npm run build`
+    const dirs = [1, 2].map((i) => join(OUT, `run${i}`));
+    for (const d of dirs) {
+      const r = spawnSync(
+        process.execPath,
+        [
+          cli,
+          'figures',
+          join(FIXTURES, '1A8O.cif'),
+          '--out',
+          d,
+          '--template',
+          'torsion-plot',
+          '--template',
+          'residue-strip',
+          '--format',
+          'svg,pdf',
+        ],
+        { encoding: 'utf8' },
+      );
+      expect([r.status, r.stderr]).toEqual([0, '']);
+    }
+    for (const name of [
+      'torsion-plot.single.svg',
+      'torsion-plot.single.pdf',
+      'residue-strip.single.svg',
+    ]) {
+      expect(readFileSync(join(dirs[0], name)).equals(readFileSync(join(dirs[1], name)))).toBe(
+        true,
+      );
+    }
+  });
+});
+
+describe('readiness check names the offending element', () => {
+  const preset = loadPreset('single');
+  test('text under 6 pt and lines under 0.25 pt at print size', () => {
+    const svg = torsion['1A8O.cif'].svg
+      .replace('font-size="6.5px"', 'font-size="3px"')
+      .replace('stroke-width="0.5"', 'stroke-width="0.1"');
+    const r = checkReadiness(svg, preset);
+    expect(r.ok).toBe(false);
+    expect(
+      r.issues.some(
+        (i) => i.check === 'font' && /axis/.test(i.element) && /3\.00 pt/.test(i.message),
+      ),
+    ).toBe(true);
+    expect(r.issues.some((i) => i.check === 'line' && /0\.100 pt/.test(i.message))).toBe(true);
+  });
+
+  test('a width other than the preset is reported', () => {
+    const svg = torsion['1A8O.cif'].svg.replace('width="89mm"', 'width="100mm"');
+    expect(checkReadiness(svg, preset).issues.map((i) => i.check)).toContain('size');
+  });
+
+  test('red and green collapse under deuteranopia and protanopia but not in normal vision (red–green deficiency: fact of the trade)', () => {
+    const normal = deltaE(simulate('#D00000', 'normal'), simulate('#00A000', 'normal'));
+    const deut = deltaE(simulate('#D00000', 'deuteranopia'), simulate('#00A000', 'deuteranopia'));
+    expect(normal).toBeGreaterThan(50);
+    expect(deut).toBeLessThan(normal / 2);
+    expect(paletteConflicts(['#CC3333', '#33AA33']).length).toBeGreaterThanOrEqual(0);
+    // blue vs yellow stays apart for red–green deficiencies; tritanopia is the blue–yellow one
+    expect(
+      deltaE(simulate('#0072B2', 'deuteranopia'), simulate('#F0E442', 'deuteranopia')),
+    ).toBeGreaterThan(40);
+  });
+
+  test('the colours the figures use from the Okabe–Ito palette (Okabe & Ito 2008) stay apart', () => {
+    const p = preset.palette;
+    expect(
+      paletteConflicts([p.vermilion, p.blue, p.orange, p.skyBlue, p.bluishGreen, preset.tones.ink]),
+    ).toEqual([]);
+  });
+});
+
+describe('bad parameters', () => {
+  test('an unknown parameter or a value out of range gets a sentence saying what to use', async () => {
+    await expect(
+      renderFigure({
+        report: reports['1A8O.cif'],
+        templateId: 'torsion-plot',
+        presetId: 'single',
+        params: { nope: 1 },
+      }),
+    ).rejects.toThrow(/has no parameter "nope"; use one of markSize/);
+    await expect(
+      renderFigure({
+        report: reports['1A8O.cif'],
+        templateId: 'torsion-plot',
+        presetId: 'single',
+        params: { markSize: 1000 },
+      }),
+    ).rejects.toThrow(/between 2 and 60/);
+    await expect(
+      renderFigure({ report: reports['1A8O.cif'], templateId: 'torsion-plot', presetId: 'a4' }),
+    ).rejects.toThrow(/There is no preset "a4"; choose one of/);
+  });
+});
