@@ -1,4 +1,4 @@
-import { Logger } from '@nestjs/common';
+import { ConsoleLogger, Logger } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import { type NestExpressApplication } from '@nestjs/platform-express';
 import { DocumentBuilder, SwaggerModule } from '@nestjs/swagger';
@@ -11,13 +11,24 @@ import { type AppConfig } from './config/app-config.js';
 import { createValidationPipe } from './common/validation.js';
 import { SmtpSinkService } from './mail/smtp-sink.service.js';
 
+/** Nest's own start-up chatter (one line per module and route) only with FOLDFOLIO_VERBOSE=1. */
+const CHATTY = new Set(['InstanceLoader', 'RoutesResolver', 'RouterExplorer', 'NestFactory']);
+class StartupQuietLogger extends ConsoleLogger {
+  override log(message: unknown, context?: string): void {
+    if (context && CHATTY.has(context) && process.env.FOLDFOLIO_VERBOSE !== '1') return;
+    super.log(message, context);
+  }
+}
+
 /**
  * Builds the configured application: security headers, cookies, validation, OpenAPI at
  * /api/docs, the built UI, and the local mail sink. main.ts and the e2e tests both use it.
  */
 export async function createApp(cfg: AppConfig): Promise<NestExpressApplication> {
   const app = await NestFactory.create<NestExpressApplication>(AppModule.register(cfg), {
-    logger: process.env.FOLDFOLIO_QUIET === '1' ? ['error'] : ['log', 'warn', 'error'],
+    logger: new StartupQuietLogger({
+      logLevels: process.env.FOLDFOLIO_QUIET === '1' ? ['error'] : ['log', 'warn', 'error'],
+    }),
   });
   app.set('trust proxy', 'loopback');
   app.use(helmet());
