@@ -4,6 +4,7 @@
  */
 import type { Report } from '@foldfolio/shared';
 import { datasetFor } from './datasets.js';
+import { figureReferenceForReport } from './figure-reference.js';
 import { checkReadiness, type ReadinessResult } from './readiness.js';
 import { finishSvg, PT_PER_MM, svgSize } from './svg.js';
 import { loadFigureTemplate, loadPreset, type FigureTemplate } from './templates.js';
@@ -206,6 +207,8 @@ export async function renderFigure(
 ): Promise<RenderedFigure> {
   const preset = loadPreset(req.presetId);
   const template = req.template ?? loadFigureTemplate(req.templateId);
+  if (req.reference === undefined)
+    req = { ...req, reference: figureReferenceForReport(req.report) };
   let { spec, rows } = buildSpec(req, preset, template);
   let raw = await host.render(spec);
   // axes and labels take a width known only after layout: one corrective pass fits the preset
