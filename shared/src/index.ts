@@ -15,3 +15,14 @@ export * from './validation/torsions';
 export * from './report/build';
 export { ENGINE_VERSION } from './report/version';
 export { sha256Hex } from './report/sha256';
+// Covalent geometry, peptides, chirality, Cβ, secondary structure, composition, ensembles,
+// neighbour grid and demo models (engine geometry).
+export * from './geometry/grid';
+export * from './validation/covalent';
+export * from './validation/peptides';
+export * from './validation/chirality';
+export * from './validation/composition';
+export * from './validation/ensemble';
+export * from './secondary/dssp';
+export { buildDemoStructures, buildDemoStructure, demoSpecs, writeMmcif } from './demo/build';
+export type { DemoStructure, DemoFault, DemoFaultKind, DemoSpec, DemoChainSpec } from './demo/build';
