@@ -242,7 +242,7 @@ test('change a role, remove a member; the last owner can neither leave nor be de
     .set(auth(owner))
     .send({ role: 'commenter' })
     .expect(200);
-  expect(changed.body.find((m: { userId: string }) => m.userId === ed.id).role).toBe('commenter');
+  expect(changed.body).toMatchObject({ userId: ed.id, role: 'commenter' });
 
   const leave = await request(t.server)
     .post(`/api/manuscripts/${id}/leave`)

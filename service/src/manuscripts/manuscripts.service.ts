@@ -134,18 +134,15 @@ export class ManuscriptsService {
     return role;
   }
 
-  async changeRole(
-    manuscriptId: string,
-    userId: string,
-    role: MembershipRole,
-  ): Promise<MemberDto[]> {
+  async changeRole(manuscriptId: string, userId: string, role: MembershipRole): Promise<MemberDto> {
     await this.db.transaction(async (m) => {
       const target = await this.lockMember(m, manuscriptId, userId);
       if (target.role === 'owner' && role !== 'owner') await this.ensureOtherOwner(m, manuscriptId);
       await m.update(Membership, { id: target.id }, { role });
       await this.touch(manuscriptId, m);
     });
-    return this.members(manuscriptId);
+    const members = await this.members(manuscriptId);
+    return members.find((x) => x.userId === userId) as MemberDto;
   }
 
   async removeMember(manuscriptId: string, userId: string): Promise<void> {

@@ -26,7 +26,7 @@ export class MembersController {
     @Param('manuscriptId') id: string,
     @Param('userId', idParam('member')) userId: string,
     @Body() dto: ChangeRoleDto,
-  ): Promise<MemberDto[]> {
+  ): Promise<MemberDto> {
     return this.manuscripts.changeRole(id, userId, dto.role);
   }
 
