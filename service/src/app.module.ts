@@ -15,6 +15,9 @@ import { ManuscriptsModule } from './manuscripts/manuscripts.module.js';
 import { DemoSeedService } from './seed/demo-seed.service.js';
 import { UsersModule } from './users/users.module.js';
 import { ModelsModule } from './models/models.module.js';
+import { LedgerModule } from './ledger/ledger.module.js';
+import { CommentsModule } from './comments/comments.module.js';
+import { NotificationsModule } from './notifications/notifications.module.js';
 
 @Module({})
 export class AppModule {
@@ -33,6 +36,9 @@ export class AppModule {
         AdminModule,
         HealthModule,
         ModelsModule,
+        LedgerModule,
+        CommentsModule,
+        NotificationsModule,
       ],
       providers: [
         // Order matters: first who you are (JWT), then what you may do on a manuscript.

@@ -3,6 +3,7 @@ import { type ExecutionContext, ForbiddenException } from '@nestjs/common';
 import request from 'supertest';
 import { ManuscriptRoleGuard } from '../src/manuscripts/manuscript-roles.js';
 import { type Account, register, startTestApp, type TestApp } from './helpers/test-app.js';
+import { fixture as structureFile, seedVersion } from './helpers/workflow.js';
 
 /**
  * Every manuscript route × every role (+ a signed-in non-member, + anonymous).
@@ -23,6 +24,8 @@ interface Fixture {
 interface Call {
   params?: Record<string, string>;
   body?: Record<string, unknown>;
+  /** a multipart upload instead of a JSON body */
+  attach?: { field: string; bytes: Buffer; filename: string };
 }
 interface Entry {
   allowed: Role[];
@@ -67,7 +70,101 @@ const MATRIX: Record<string, Entry> = {
       return { params: { invitationId: id } };
     },
   },
+  // Workflow (issue 6): model versions, analyses, ledger, comments, notifications.
+  'POST /api/manuscripts/:manuscriptId/models': {
+    allowed: ['owner', 'editor'],
+    prepare: () => ({
+      attach: { field: 'file', bytes: structureFile('1A8O.cif'), filename: '1A8O.cif' },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models': { allowed: ALL },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/analysis': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/report': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/file': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/ledger': {
+    allowed: ALL,
+    prepare: async (fx, t) => {
+      await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif');
+      const v2 = await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.pdb');
+      return { params: { versionId: v2.id } };
+    },
+  },
+  'GET /api/manuscripts/:manuscriptId/comments': { allowed: ['owner', 'editor', 'commenter'] },
+  'GET /api/manuscripts/:manuscriptId/comments/counts/:versionId': {
+    allowed: ['owner', 'editor', 'commenter'],
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'POST /api/manuscripts/:manuscriptId/comments': {
+    allowed: ['owner', 'editor', 'commenter'],
+    prepare: () => ({
+      body: { anchor: { type: 'figure', figureId: 'fig-1' }, body: 'Axis labels?' },
+    }),
+  },
+  'POST /api/manuscripts/:manuscriptId/comments/:commentId/replies': {
+    allowed: ['owner', 'editor', 'commenter'],
+    prepare: async (fx, t) => ({
+      params: { commentId: await seedComment(t, fx) },
+      body: { body: 'Agreed.' },
+    }),
+  },
+  'POST /api/manuscripts/:manuscriptId/comments/:commentId/resolve': {
+    allowed: ['owner', 'editor', 'commenter'],
+    prepare: async (fx, t) => ({ params: { commentId: await seedComment(t, fx) } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/comments/:commentId/reopen': {
+    allowed: ['owner', 'editor', 'commenter'],
+    prepare: async (fx, t) => ({ params: { commentId: await seedComment(t, fx) } }),
+  },
+  'GET /api/manuscripts/:manuscriptId/notifications': { allowed: ALL },
+  'PUT /api/manuscripts/:manuscriptId/notifications': {
+    allowed: ALL,
+    prepare: () => ({ body: { muted: true } }),
+  },
 };
+
+/** A figure comment by the owner, inserted directly. */
+async function seedComment(t: TestApp, fx: Fixture): Promise<string> {
+  const id = randomUUID();
+  await t.db.query(
+    `INSERT INTO comments (id, manuscript_id, anchor_type, anchor_key, author_id, body_md, body_html)
+     VALUES (?, ?, 'figure', 'figure:fig-1', ?, 'Check the axis.', '<p>Check the axis.</p>')`,
+    [id, fx.manuscriptId, fx.users.owner.id],
+  );
+  return id;
+}
 
 let t: TestApp;
 let users: Fixture['users'];
@@ -144,10 +241,13 @@ describe.each(Object.keys(MATRIX))('%s', (route) => {
     const [method, pattern] = route.split(' ');
     const params: Record<string, string> = { manuscriptId: fx.manuscriptId, ...call.params };
     const path = pattern.replace(/:(\w+)/g, (_, name: string) => params[name]);
-    let req = request(t.server)[method.toLowerCase() as 'get' | 'post' | 'patch' | 'delete'](path);
+    let req = request(t.server)[
+      method.toLowerCase() as 'get' | 'post' | 'patch' | 'put' | 'delete'
+    ](path);
     const account =
       actor === 'anonymous' ? null : actor === 'non-member' ? users.outsider : users[actor];
     if (account) req = req.set('Authorization', `Bearer ${account.token}`);
+    if (call.attach) req = req.attach(call.attach.field, call.attach.bytes, call.attach.filename);
     const res = await (call.body ? req.send(call.body) : req);
 
     const expected =

@@ -11,6 +11,7 @@ export { DEFAULT_MAX_UNCOMPRESSED_BYTES } from './io/gzip';
 export * from './model/conformers';
 export * from './geometry/vec';
 export * from './geometry/torsion';
+export * from './geometry/superpose';
 export * from './validation/torsions';
 export * from './report/build';
 export { ENGINE_VERSION } from './report/version';

@@ -77,3 +77,48 @@ export async function waitForAnalysis(
 }
 
 export type { ModelVersionDto };
+
+/**
+ * Stores a fixture as the next version of a manuscript and runs the real analysis on it in this
+ * process (the same processAnalysis the worker runs), without going through the queue.
+ */
+export async function seedVersion(
+  t: TestApp,
+  manuscriptId: string,
+  uploaderId: string,
+  name: string,
+  bytes: Buffer = fixture(name),
+): Promise<{ id: string; n: number }> {
+  const { Readable } = await import('node:stream');
+  const { randomUUID } = await import('node:crypto');
+  const { BLOB_STORE } = await import('../../src/storage/blob-store.js');
+  const { sniffFormat } = await import('../../src/storage/sniff.js');
+  const { processAnalysis } = await import('../../src/analyses/worker-runtime.js');
+  const store = t.app.get<symbol, import('../../src/storage/blob-store.js').BlobStore>(BLOB_STORE);
+  const blob = await store.put(Readable.from([bytes]), { maxBytes: 1 << 30 });
+  const sniffed = sniffFormat(bytes.subarray(0, 65536), name);
+  const id = randomUUID();
+  const [{ next }] = (await t.db.query(
+    'SELECT COALESCE(MAX(n), 0) + 1 AS next FROM model_versions WHERE manuscript_id = ?',
+    [manuscriptId],
+  )) as { next: number | string }[];
+  await t.db.query(
+    `INSERT INTO model_versions (id, manuscript_id, n, sha256, format, gzip, filename, size_bytes, note, uploaded_by)
+     VALUES (?, ?, ?, ?, ?, ?, ?, ?, '', ?)`,
+    [
+      id,
+      manuscriptId,
+      Number(next),
+      blob.sha256,
+      sniffed.format,
+      sniffed.gzip,
+      name,
+      blob.sizeBytes,
+      uploaderId,
+    ],
+  );
+  await t.db.query("INSERT INTO analyses (model_version_id, status) VALUES (?, 'queued')", [id]);
+  const job = { data: { modelVersionId: id }, updateProgress: async () => undefined };
+  await processAnalysis(t.db, store, job as never, 'seed');
+  return { id, n: Number(next) };
+}
