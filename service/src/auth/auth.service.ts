@@ -36,6 +36,7 @@ export interface IssuedSession {
 const INVALID_SIGN_IN =
   'That e-mail address and password do not match an account. Check both, or reset your password.';
 const SESSION_ENDED = 'Your session has ended. Sign in again.';
+const SESSION_RACE = 'Your session was just renewed in another tab. Reload the page.';
 
 @Injectable()
 export class AuthService {
@@ -82,7 +83,18 @@ export class AuthService {
     if (!found) throw new UnauthorizedException(SESSION_ENDED);
     const now = new Date();
     if (found.revokedAt) {
-      // A revoked token came back: someone holds a copy. End every session of this family.
+      // Two tabs of one browser may refresh at the same moment with the same cookie; the loser
+      // is told to retry (its browser already holds the new cookie) instead of ending sessions.
+      const recent =
+        now.getTime() - found.revokedAt.getTime() < this.cfg.refreshReuseGraceSec * 1000;
+      // (a family without a live token was ended by sign-out or a password reset: no race)
+      if (
+        recent &&
+        (await this.refreshTokens.countBy({ familyId: found.familyId, revokedAt: IsNull() })) > 0
+      ) {
+        throw new UnauthorizedException(SESSION_RACE);
+      }
+      // A revoked token came back later: someone holds a copy. End every session of this family.
       await this.refreshTokens.update(
         { familyId: found.familyId, revokedAt: IsNull() },
         { revokedAt: now },

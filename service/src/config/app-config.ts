@@ -18,6 +18,8 @@ export interface AppConfig {
   jwtSecret: string;
   accessTokenTtlSec: number;
   refreshTokenTtlDays: number;
+  /** A rotated refresh token presented again within this many seconds is a tab race, not theft. */
+  refreshReuseGraceSec: number;
   invitationTtlDays: number;
   passwordResetTtlMin: number;
   bcryptCost: number;
@@ -90,6 +92,7 @@ export function loadConfig(env: Env = process.env): AppConfig {
     // 15 min access / 14 day refresh: common practice for SPA sessions, no source.
     accessTokenTtlSec: int(env, 'FOLDFOLIO_ACCESS_TTL_SEC', 15 * 60),
     refreshTokenTtlDays: int(env, 'FOLDFOLIO_REFRESH_TTL_DAYS', 14),
+    refreshReuseGraceSec: int(env, 'FOLDFOLIO_REFRESH_GRACE_SEC', 10),
     invitationTtlDays: 7,
     passwordResetTtlMin: 60,
     // bcrypt cost 12 ≈ 0.2–0.4 s per hash in pure JS here; OWASP asks for at least 10.
