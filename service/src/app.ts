@@ -31,7 +31,14 @@ export async function createApp(cfg: AppConfig): Promise<NestExpressApplication>
     }),
   });
   app.set('trust proxy', 'loopback');
-  app.use(helmet());
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        // Over plain http on 127.0.0.1 an upgrade to https would break every asset request.
+        directives: { upgradeInsecureRequests: cfg.secureCookies ? [] : null },
+      },
+    }),
+  );
   app.use(cookieParser());
   app.setGlobalPrefix('api');
   app.useGlobalPipes(createValidationPipe());

@@ -44,4 +44,6 @@ test('helmet sets security headers', async () => {
   const res = await request(t.server).get('/api/health');
   expect(res.headers['x-content-type-options']).toBe('nosniff');
   expect(res.headers['content-security-policy']).toContain("default-src 'self'");
+  // served over plain http on loopback: asking browsers to upgrade to https would break it
+  expect(res.headers['content-security-policy']).not.toContain('upgrade-insecure-requests');
 });
