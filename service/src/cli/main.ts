@@ -6,6 +6,7 @@
  */
 import { runReportCommand, REPORT_USAGE } from '@foldfolio/shared/dist/cli/report.js';
 import { FIGURES_USAGE, runFiguresCommand } from '../figures/cli.js';
+import { runTablesCommand, TABLES_USAGE } from '../tables/cli.js';
 
 type Runner = (
   args: string[],
@@ -15,6 +16,7 @@ type Runner = (
 const COMMANDS: Record<string, { run: Runner; usage: string }> = {
   report: { run: runReportCommand, usage: REPORT_USAGE },
   figures: { run: runFiguresCommand, usage: FIGURES_USAGE },
+  tables: { run: runTablesCommand, usage: TABLES_USAGE },
 };
 
 function usage(): string {
