@@ -114,53 +114,97 @@ export function analyzeOverlaps(
     subset.push(i);
   }
   const sub = subset.data.subarray(0, subset.length);
-  const grid = buildCellGrid(all.x, all.y, all.z, { subset: sub, cellSizeA: 4 });
-  const alt = all.altloc;
-  const el = all.element;
+  const m = sub.length;
+  // Reorder the atoms taking part by grid cell so the pair loop walks memory in order (the
+  // all-atom set of a 1,000,000-atom model does not fit in cache); indices below are in this
+  // order ("local"), `perm` maps back to the all-atom set.
+  const first = buildCellGrid(all.x, all.y, all.z, { subset: sub, cellSizeA: 4 });
+  const perm = first.cellAtoms;
+  const local = new Int32Array(n).fill(-1);
+  const xs = new Float64Array(m);
+  const ys = new Float64Array(m);
+  const zs = new Float64Array(m);
+  const el = new Uint8Array(m);
+  const alt = new Int32Array(m);
+  const res = new Int32Array(m);
+  for (let k = 0; k < m; k++) {
+    const i = perm[k];
+    local[i] = k;
+    xs[k] = all.x[i];
+    ys[k] = all.y[i];
+    zs[k] = all.z[i];
+    el[k] = all.element[i];
+    alt[k] = all.altloc[i];
+    res[k] = all.residue[i];
+  }
+  const grid = buildCellGrid(xs, ys, zs, { cellSizeA: 4 });
+  const fromModel = new Uint8Array(m);
+  for (let k = 0; k < m; k++) fromModel[k] = perm[k] < all.modelAtoms ? 1 : 0;
 
-  // Pass 1: bonds (CSR adjacency). Degree is small; count first, then fill.
+  // One pass over pairs within the largest severe-contact distance: record covalent bonds
+  // (distance rule) and candidate overlaps (raw overlap ≥ the severe threshold).
   const bondA = new IntList();
   const bondB = new IntList();
-  const maxBond = 2 * 1.2 + BOND_TOLERANCE_A;
-  forEachPairWithin(grid, maxBond, (i, j, d2) => {
+  const candA = new IntList();
+  const candB = new IntList();
+  const maxContact = 2 * 1.9 - severeA;
+  forEachPairWithin(grid, maxContact, (i, j, d2) => {
     if (alt[i] !== 0 && alt[j] !== 0 && alt[i] !== alt[j]) return;
-    // added H bond only to their parent (added below)
-    if (i >= all.modelAtoms || j >= all.modelAtoms) return;
     const ei = el[i];
     const ej = el[j];
-    if (ei === El.H && ej === El.H) return;
-    const ri = all.residue[i];
-    const rj = all.residue[j];
-    if (ri !== rj) {
-      // Between residues only real links count as bonds: peptide C–N, disulfide S–S, and links to
-      // ligands or nucleic acids; never waters (a water pushed into a residue is a clash, not a bond).
-      const ki = kind[ri];
-      const kj = kind[rj];
-      if (ki === ResidueKind.Water || kj === ResidueKind.Water) return;
-      const protein = ki === ResidueKind.Protein && kj === ResidueKind.Protein;
-      const peptide = (ei === El.C && ej === El.N) || (ei === El.N && ej === El.C);
-      const disulfide = ei === El.S && ej === El.S;
-      if (protein && !peptide && !disulfide) return;
-    }
     const lim = COVALENT_RADII_A[ei] + COVALENT_RADII_A[ej] + BOND_TOLERANCE_A;
-    if (d2 < lim * lim) {
-      bondA.push(i);
-      bondB.push(j);
+    if (
+      d2 < lim * lim &&
+      fromModel[i] === 1 &&
+      fromModel[j] === 1 &&
+      !(ei === El.H && ej === El.H)
+    ) {
+      // added H bond only to their parent (below)
+      let bonded = true;
+      const ri = res[i];
+      const rj = res[j];
+      if (ri !== rj) {
+        // Between residues only real links count as bonds: peptide C–N, disulfide S–S, and
+        // links to ligands or nucleic acids; never waters (a water pushed into a residue is a
+        // clash, not a bond).
+        const ki = kind[ri];
+        const kj = kind[rj];
+        if (ki === ResidueKind.Water || kj === ResidueKind.Water) bonded = false;
+        else if (ki === ResidueKind.Protein && kj === ResidueKind.Protein) {
+          const peptide = (ei === El.C && ej === El.N) || (ei === El.N && ej === El.C);
+          const disulfide = ei === El.S && ej === El.S;
+          if (!peptide && !disulfide) bonded = false;
+        }
+      }
+      if (bonded) {
+        bondA.push(i);
+        bondB.push(j);
+        return;
+      }
+    }
+    const r = BONDI_RADII_A[ei] + BONDI_RADII_A[ej] - severeA;
+    if (d2 <= r * r) {
+      candA.push(i);
+      candB.push(j);
     }
   });
   for (let h = all.modelAtoms; h < n; h++) {
-    bondA.push(h);
-    bondB.push(all.parent[h]);
+    const a = local[h];
+    const b = local[all.parent[h]];
+    if (a >= 0 && b >= 0) {
+      bondA.push(a);
+      bondB.push(b);
+    }
   }
-  const deg = new Int32Array(n + 1);
+  const deg = new Int32Array(m + 1);
   for (let k = 0; k < bondA.length; k++) {
     deg[bondA.data[k] + 1]++;
     deg[bondB.data[k] + 1]++;
   }
-  for (let i = 0; i < n; i++) deg[i + 1] += deg[i];
+  for (let i = 0; i < m; i++) deg[i + 1] += deg[i];
   const adjStart = deg;
-  const adj = new Int32Array(adjStart[n]);
-  const fill = adjStart.slice(0, n);
+  const adj = new Int32Array(adjStart[m]);
+  const fill = adjStart.slice(0, m);
   for (let k = 0; k < bondA.length; k++) {
     const a = bondA.data[k];
     const b = bondB.data[k];
@@ -188,16 +232,13 @@ export function analyzeOverlaps(
   };
   const isNO = (e: number) => e === El.N || e === El.O;
 
-  // Pass 2: overlaps.
   const severe: OverlapPair[] = [];
-  const maxContact = 2 * 1.9 - severeA;
-  forEachPairWithin(grid, maxContact, (i, j, d2) => {
-    if (alt[i] !== 0 && alt[j] !== 0 && alt[i] !== alt[j]) return;
-    const ri = BONDI_RADII_A[el[i]];
-    const rj = BONDI_RADII_A[el[j]];
-    const raw = ri + rj - Math.sqrt(d2);
-    if (raw < severeA) return;
-    if (within3(i, j)) return;
+  for (let c = 0; c < candA.length; c++) {
+    const i = candA.data[c];
+    const j = candB.data[c];
+    if (within3(i, j)) continue;
+    const d = Math.hypot(xs[i] - xs[j], ys[i] - ys[j], zs[i] - zs[j]);
+    const raw = BONDI_RADII_A[el[i]] + BONDI_RADII_A[el[j]] - d;
     let allowance = 0;
     if (
       (el[i] === El.H && isNO(el[j]) && polarH(i)) ||
@@ -206,8 +247,12 @@ export function analyzeOverlaps(
       allowance = HBOND_H_ALLOWANCE_A;
     else if (isNO(el[i]) && isNO(el[j])) allowance = HBOND_HEAVY_ALLOWANCE_A;
     const ov = raw - allowance;
-    if (ov >= severeA) severe.push({ a: i, b: j, overlapA: Math.round(ov * 1000) / 1000 });
-  });
+    if (ov >= severeA) {
+      const a = perm[i];
+      const b = perm[j];
+      severe.push({ a: Math.min(a, b), b: Math.max(a, b), overlapA: Math.round(ov * 1000) / 1000 });
+    }
+  }
   // deterministic order: largest overlap first, then atom indices
   severe.sort((p, q) => q.overlapA - p.overlapA || p.a - q.a || p.b - q.b);
   const hydrogens =

@@ -1,0 +1,209 @@
+/**
+ * Benchmark of the full report with verdicts, riding hydrogens and all-atom overlaps (issue 4),
+ * run by `npm run bench` (scripts/bench.sh, section "verdicts"). Node edge.
+ *
+ *   node shared/dist/cli/bench-verdicts.js [--reference-set DIR] [--atoms 1000000] [--files N]
+ *
+ * Bars (issue 4):
+ *  1. full report on the reference set ≤ 4 × gemmi's read + phi/psi time in the same run;
+ *  2. a 1,000,000-atom model: full report with overlaps < 20 s, peak RSS < 3 GB, and roughly
+ *     linear growth (compared with a 100,000-atom model).
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { buildReport } from '../report/build';
+import { readStructure } from '../io/read';
+import { ResidueKind } from '../model/types';
+
+const ROOT = resolve(__dirname, '../../..');
+const PY = '/usr/bin/python3';
+const BAR_RATIO = 4;
+const BAR_SECONDS = 20;
+const BAR_RSS_MB = 3 * 1024;
+
+/** gemmi read + phi/psi of every polymer residue (python3-gemmi), timed inside Python. */
+const GEMMI_PHI_PSI = `
+import sys, time, gemmi
+files = open(sys.argv[1]).read().split()
+t0 = time.perf_counter()
+n = 0
+for f in files:
+    st = gemmi.read_structure(f)
+    for model in st:
+        for chain in model:
+            poly = chain.get_polymer()
+            for i in range(len(poly)):
+                prev = poly[i - 1] if i > 0 else None
+                nxt = poly[i + 1] if i + 1 < len(poly) else None
+                gemmi.calculate_phi_psi(prev, poly[i], nxt)
+                n += 1
+print(time.perf_counter() - t0, n)
+`;
+
+async function reportAll(files: string[]): Promise<{ seconds: number; residues: number }> {
+  const t0 = performance.now();
+  let residues = 0;
+  for (const f of files) {
+    const r = await buildReport(readFileSync(f), { filename: f });
+    for (const m of r.models) residues += m.residues.length;
+  }
+  return { seconds: (performance.now() - t0) / 1000, residues };
+}
+
+/** mmCIF text of translated copies (150 Å apart, no contacts between copies) of a fixture's protein atoms. */
+export async function tiled(source: string, targetAtoms: number): Promise<string> {
+  const s = await readStructure(readFileSync(source), source);
+  const m = s.models[0];
+  const S = s.strings;
+  const rows: number[] = [];
+  for (let a = 0; a < m.atoms.count; a++)
+    if (m.residues.kind[m.atoms.residue[a]] === ResidueKind.Protein) rows.push(a);
+  const copies = Math.ceil(targetAtoms / rows.length);
+  const side = Math.ceil(Math.cbrt(copies));
+  const fields = [
+    'group_PDB',
+    'id',
+    'type_symbol',
+    'label_atom_id',
+    'label_alt_id',
+    'label_comp_id',
+    'label_asym_id',
+    'label_entity_id',
+    'label_seq_id',
+    'Cartn_x',
+    'Cartn_y',
+    'Cartn_z',
+    'occupancy',
+    'B_iso_or_equiv',
+    'auth_seq_id',
+    'auth_asym_id',
+    'pdbx_PDB_model_num',
+  ];
+  const out: string[] = ['data_tiled', 'loop_', ...fields.map((f) => '_atom_site.' + f)];
+  let id = 0;
+  for (let c = 0; c < copies && id < targetAtoms; c++) {
+    const dx = (c % side) * 150;
+    const dy = (Math.floor(c / side) % side) * 150;
+    const dz = Math.floor(c / (side * side)) * 150;
+    for (const a of rows) {
+      if (id >= targetAtoms) break;
+      const r = m.atoms.residue[a];
+      const chain = `${S[m.chains.authId[m.residues.chain[r]]]}${c}`;
+      out.push(
+        `ATOM ${++id} ${S[m.atoms.element[a]]} ${S[m.atoms.name[a]]} ${S[m.atoms.altloc[a]] || '.'} ${S[m.residues.name[r]]} ${chain} 1 ${m.residues.authSeq[r]} ` +
+          `${(m.atoms.x[a] + dx).toFixed(3)} ${(m.atoms.y[a] + dy).toFixed(3)} ${(m.atoms.z[a] + dz).toFixed(3)} ${m.atoms.occupancy[a].toFixed(2)} ${m.atoms.bIso[a].toFixed(2)} ${m.residues.authSeq[r]} ${chain} 1`,
+      );
+    }
+  }
+  out.push('#', '');
+  return out.join('\n');
+}
+
+/** Child mode: one full report, prints seconds, peak RSS and overlap count as JSON. */
+async function childMain(file: string): Promise<void> {
+  const bytes = readFileSync(file);
+  const t0 = performance.now();
+  const r = await buildReport(bytes, { filename: file });
+  const seconds = (performance.now() - t0) / 1000;
+  const m = r.models[0];
+  process.stdout.write(
+    JSON.stringify({
+      seconds,
+      maxRssMB: process.resourceUsage().maxRSS / 1024,
+      atoms: m.summary.composition.atoms,
+      severe: m.summary.overlaps?.severe ?? null,
+    }) + '\n',
+  );
+}
+
+function child(file: string): {
+  seconds: number;
+  maxRssMB: number;
+  atoms: number;
+  severe: number | null;
+} {
+  return JSON.parse(
+    execFileSync(process.execPath, ['--max-old-space-size=4096', __filename, '--child', file], {
+      encoding: 'utf8',
+    }),
+  ) as {
+    seconds: number;
+    maxRssMB: number;
+    atoms: number;
+    severe: number | null;
+  };
+}
+
+const pass = (ok: boolean) => (ok ? 'PASS' : 'FAIL');
+
+async function main(args: string[]): Promise<number> {
+  const opt = (name: string, dflt: string): string => {
+    const i = args.indexOf(name);
+    return i >= 0 && args[i + 1] !== undefined ? args[i + 1] : dflt;
+  };
+  const refDir = resolve(opt('--reference-set', join(ROOT, '../shared/data/reference-set')));
+  const bigAtoms = Number(opt('--atoms', '1000000'));
+  const work = mkdtempSync(join(tmpdir(), 'foldfolio-bench-verdicts-'));
+  let failures = 0;
+  try {
+    let files = readdirSync(refDir)
+      .filter((f) => /\.(pdb|ent|cif|bcif)(\.gz)?$/i.test(f))
+      .sort()
+      .map((f) => join(refDir, f));
+    const limit = Number(opt('--files', String(files.length)));
+    files = files.slice(0, limit);
+    await reportAll(files.slice(0, 10)); // warm-up, not timed
+    const ours = await reportAll(files);
+    const list = join(work, 'files.txt');
+    writeFileSync(list, files.join('\n'));
+    const [gs] = execFileSync(PY, ['-c', GEMMI_PHI_PSI, list], { encoding: 'utf8' })
+      .trim()
+      .split(/\s+/)
+      .map(Number);
+    const ratio = ours.seconds / gs;
+    console.log(
+      `full report (verdicts, hydrogens, overlaps) on ${files.length} files: ${ours.seconds.toFixed(2)} s; gemmi read + phi/psi ${gs.toFixed(2)} s; ratio ${ratio.toFixed(2)} (bar ≤ ${BAR_RATIO}) ${pass(ratio <= BAR_RATIO)}`,
+    );
+    if (ratio > BAR_RATIO) failures++;
+
+    const source = join(ROOT, 'shared/test/fixtures/2XHE.cif');
+    const small = join(work, 'small.cif');
+    const big = join(work, 'big.cif');
+    writeFileSync(small, await tiled(source, Math.round(bigAtoms / 10)));
+    writeFileSync(big, await tiled(source, bigAtoms));
+    const s = child(small);
+    const b = child(big);
+    console.log(
+      `${s.atoms} atoms: ${s.seconds.toFixed(2)} s, peak RSS ${s.maxRssMB.toFixed(0)} MB, ${s.severe} severe overlaps`,
+    );
+    const okT = b.seconds < BAR_SECONDS;
+    const okM = b.maxRssMB < BAR_RSS_MB;
+    const growth = b.seconds / s.seconds / (b.atoms / s.atoms);
+    console.log(
+      `${b.atoms} atoms: ${b.seconds.toFixed(2)} s (bar < ${BAR_SECONDS} s) ${pass(okT)}, peak RSS ${b.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${pass(okM)}, ${b.severe} severe overlaps`,
+    );
+    console.log(
+      `growth per atom, 10× atoms: ${growth.toFixed(2)} (1.0 = linear; bar ≤ 1.5) ${pass(growth <= 1.5)}`,
+    );
+    if (!okT) failures++;
+    if (!okM) failures++;
+    if (growth > 1.5) failures++;
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
+  return failures === 0 ? 0 : 1;
+}
+
+if (require.main === module) {
+  const argv = process.argv.slice(2);
+  const run = argv[0] === '--child' ? childMain(argv[1]).then(() => 0) : main(argv);
+  run.then(
+    (code) => process.exit(code),
+    (e: unknown) => {
+      process.stderr.write(`bench-verdicts: ${(e as Error).message}\n`);
+      process.exit(2);
+    },
+  );
+}
