@@ -7,7 +7,8 @@ export * from './experiment';
 // Readers, hierarchy lookups and torsions (engine I).
 export * from './io/errors';
 export * from './io/read';
-export { DEFAULT_MAX_UNCOMPRESSED_BYTES } from './io/gzip';
+export { DEFAULT_MAX_UNCOMPRESSED_BYTES, GunzipTooLarge } from './io/gzip';
+export type { GunzipFunction } from './io/gzip';
 export * from './model/conformers';
 export * from './geometry/vec';
 export * from './geometry/torsion';

@@ -8,6 +8,7 @@ import { gzipSync } from 'fflate';
 import { readStructure, sniffStructure, StructureReadError } from '../src';
 import type { Model, Structure } from '../src';
 import { ResidueKind } from '../src/model/types';
+import { nodeGunzip } from '../src/cli/node-gunzip';
 import { FIXTURES, referenceFor, STRUCTURE_FIXTURES } from './reference/reference';
 import type { RefEntry } from './reference/reference';
 
@@ -227,10 +228,28 @@ describe('bad input gets a clear error, never a partial structure', () => {
     expect(e.message).toMatch(/expands to more than 1048576 bytes/);
   });
 
+  it('a gzip bomb stops at the size limit with the Node zlib gunzip too', async () => {
+    const bomb = gzipSync(new Uint8Array(20 * 1024 * 1024), { level: 9 });
+    const e = await failure(bomb, 'bomb.pdb.gz', {
+      maxUncompressedBytes: 1024 * 1024,
+      gunzip: nodeGunzip,
+    });
+    expect(e.message).toMatch(/expands to more than 1048576 bytes/);
+    // and the same file under the limit is read through zlib: identical to the pure-JS path
+    const gz = fs.readFileSync(path.join(FIXTURES, '1pfe.cif.gz'));
+    const a = await readStructure(gz, '1pfe.cif.gz', { gunzip: nodeGunzip });
+    const b = await readStructure(gz, '1pfe.cif.gz');
+    expect(flatten(a)).toEqual(flatten(b));
+  });
+
   it('a damaged gzip stream', async () => {
     const gz = fs.readFileSync(path.join(FIXTURES, '1pfe.cif.gz'));
     const e = await failure(gz.subarray(0, Math.floor(gz.length / 2)), '1pfe.cif.gz');
     expect(e.item).toBe('gzip');
+    const z = await failure(gz.subarray(0, Math.floor(gz.length / 2)), '1pfe.cif.gz', {
+      gunzip: nodeGunzip,
+    });
+    expect(z.item).toBe('gzip');
   });
 
   it('a PDB ATOM record with letters in the coordinates names the line', async () => {

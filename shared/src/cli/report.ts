@@ -5,6 +5,7 @@
 import { readFileSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { buildReport } from '../report/build';
+import { nodeGunzip } from './node-gunzip';
 import { StructureReadError } from '../io/errors';
 import type { ModelReport, Report } from '../report/types';
 
@@ -156,6 +157,7 @@ export async function runReportCommand(args: string[], io: CommandIo): Promise<n
     const report = await buildReport(bytes, {
       filename: basename(parsed.file),
       model: parsed.model,
+      gunzip: nodeGunzip,
     });
     io.out(
       parsed.json ? JSON.stringify(report) + '\n' : formatSummary(report, basename(parsed.file)),

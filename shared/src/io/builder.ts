@@ -219,19 +219,24 @@ export class StructureBuilder {
 
   private cutModel(a0: number, a1: number): Model {
     const count = a1 - a0;
+    const whole = a0 === 0 && a1 === this.count;
+    // one model: views on the builder's columns (no copy); several: own copies per model
+    const cut = <T extends Float64Array | Float32Array | Int32Array | Int8Array | Uint8Array>(
+      a: T,
+    ): T => (whole ? a.subarray(a0, a1) : a.slice(a0, a1)) as T;
     const atoms: AtomColumns = {
       count,
-      x: this.x.slice(a0, a1),
-      y: this.y.slice(a0, a1),
-      z: this.z.slice(a0, a1),
-      occupancy: this.occupancy.slice(a0, a1),
-      bIso: this.bIso.slice(a0, a1),
-      name: this.name.slice(a0, a1),
-      element: this.element.slice(a0, a1),
-      altloc: this.altloc.slice(a0, a1),
-      charge: this.charge.slice(a0, a1),
-      hetatm: this.hetatm.slice(a0, a1),
-      serial: this.serial.slice(a0, a1),
+      x: cut(this.x),
+      y: cut(this.y),
+      z: cut(this.z),
+      occupancy: cut(this.occupancy),
+      bIso: cut(this.bIso),
+      name: cut(this.name),
+      element: cut(this.element),
+      altloc: cut(this.altloc),
+      charge: cut(this.charge),
+      hetatm: cut(this.hetatm),
+      serial: cut(this.serial),
       residue: new Int32Array(count),
     };
     // residue boundaries
@@ -268,6 +273,8 @@ export class StructureBuilder {
       modified: new Uint8Array(nr),
     };
     const parentCache = new Map<number, number>();
+    const isHydrogen = new Uint8Array(this.strings.length);
+    this.strings.forEach((v, i) => (isHydrogen[i] = v === 'H' || v === 'D' ? 1 : 0));
     for (let r = 0; r < nr; r++) {
       const s = rStart[r];
       const e = r + 1 < nr ? rStart[r + 1] : a1;
@@ -288,10 +295,7 @@ export class StructureBuilder {
       residues.icode[r] = this.icode[s];
       residues.labelAsym[r] = this.chainLabel[s];
       let heavy = 0;
-      for (let i = s; i < e; i++) {
-        const el = this.strings[this.element[i]];
-        if (el !== 'H' && el !== 'D') heavy++;
-      }
+      for (let i = s; i < e; i++) if (isHydrogen[this.element[i]] === 0) heavy++;
       const ent = entityById.get(this.strings[this.entity[s]]);
       residues.kind[r] = classifyResidue(
         this.strings[nameIdx],

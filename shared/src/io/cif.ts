@@ -197,13 +197,14 @@ export function blockToStructure(
     const x = fx.float(r),
       y = fy.float(r),
       z = fz.float(r);
+    // '?' and '.' read as 0 in Mol*'s fast float parser: only zeros need the value-kind check
     if (
       !Number.isFinite(x) ||
       !Number.isFinite(y) ||
       !Number.isFinite(z) ||
-      fx.valueKind(r) !== PRESENT ||
-      fy.valueKind(r) !== PRESENT ||
-      fz.valueKind(r) !== PRESENT
+      (x === 0 && fx.valueKind(r) !== PRESENT) ||
+      (y === 0 && fy.valueKind(r) !== PRESENT) ||
+      (z === 0 && fz.valueKind(r) !== PRESENT)
     ) {
       throw new StructureReadError(
         `Row ${r + 1} of _atom_site (atom id ${strOr(fId, r, '?')}) has a missing or non-numeric coordinate in _atom_site.Cartn_x/y/z; fix or remove that atom and upload again.`,
@@ -213,8 +214,8 @@ export function blockToStructure(
     b.x[i] = x;
     b.y[i] = y;
     b.z[i] = z;
-    b.occupancy[i] = present(fOcc, r) ? fOcc!.float(r) : 1;
-    b.bIso[i] = present(fB, r) ? fB!.float(r) : 0;
+    b.occupancy[i] = fOcc === undefined ? 1 : fOcc.float(r) || (present(fOcc, r) ? 0 : 1);
+    b.bIso[i] = fB === undefined ? 0 : fB.float(r);
     pAtom = b.name[i] = internColumn(b, fAtom, r, pAtom, '');
     pComp = b.resName[i] = internColumn(b, fComp, r, pComp, '');
     pLabel = b.chainLabel[i] = internColumn(b, fLabelAsym ?? fAuthAsym, r, pLabel, '');
@@ -224,12 +225,32 @@ export function blockToStructure(
     pAlt = b.altloc[i] = internColumn(b, fAlt, r, pAlt, '');
     pType = b.element[i] = internColumn(b, fType, r, pType, '', true);
     pEnt = b.entity[i] = internColumn(b, fEntity, r, pEnt, '');
-    const ls = present(fLabelSeq, r) ? fLabelSeq!.int(r) : NO_LABEL_SEQ;
+    // within a residue most columns repeat the previous row: reuse instead of re-parsing
+    const ls =
+      r > 0 && fLabelSeq !== undefined && fLabelSeq.areValuesEqual(r, r - 1)
+        ? b.labelSeq[i - 1]
+        : present(fLabelSeq, r)
+          ? fLabelSeq!.int(r)
+          : NO_LABEL_SEQ;
     b.labelSeq[i] = ls;
-    b.authSeq[i] = present(fAuthSeq, r) ? fAuthSeq!.int(r) : ls === NO_LABEL_SEQ ? 0 : ls;
-    b.modelNum[i] = present(fModel, r) ? fModel!.int(r) : 1;
-    b.serial[i] = present(fId, r) ? fId!.int(r) : r + 1;
-    if (present(fCharge, r)) {
+    b.authSeq[i] =
+      r > 0 && fAuthSeq !== undefined && fAuthSeq.areValuesEqual(r, r - 1)
+        ? b.authSeq[i - 1]
+        : present(fAuthSeq, r)
+          ? fAuthSeq!.int(r)
+          : ls === NO_LABEL_SEQ
+            ? 0
+            : ls;
+    b.modelNum[i] =
+      r > 0 && fModel !== undefined && fModel.areValuesEqual(r, r - 1)
+        ? b.modelNum[i - 1]
+        : present(fModel, r)
+          ? fModel!.int(r)
+          : 1;
+    b.serial[i] = fId !== undefined ? fId.int(r) : r + 1;
+    if (r > 0 && fCharge !== undefined && fCharge.areValuesEqual(r, r - 1)) {
+      b.charge[i] = b.charge[i - 1];
+    } else if (present(fCharge, r)) {
       const c = fCharge!.int(r);
       if (!Number.isFinite(c) || c < -8 || c > 8) {
         throw new StructureReadError(

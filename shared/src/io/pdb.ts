@@ -9,10 +9,17 @@ import { StructureReadError } from './errors';
 
 const SP = 32;
 
-/** Bytes [s, e) of the line, read as a fixed-width field (beyond the line end counts as blank). */
+/**
+ * Bytes [s, e) of the line (at most 4), read as a fixed-width field, packed 7 bits per byte into
+ * a small integer (fast Map key; beyond the line end counts as blank); -1 for non-ASCII bytes.
+ */
 function fieldKey(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
   let k = 0;
-  for (let i = s; i < e; i++) k = k * 256 + (i < lineEnd ? buf[i] : SP);
+  for (let i = s; i < e; i++) {
+    const c = i < lineEnd ? buf[i] : SP;
+    if (c > 127) return -1;
+    k = (k << 7) | c;
+  }
   return k;
 }
 
@@ -29,38 +36,38 @@ function isBlank(buf: Uint8Array, s: number, e: number, lineEnd: number): boolea
   return true;
 }
 
-/** Decimal number in a fixed field; NaN when blank or malformed. */
+const POW10 = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15];
+
+/**
+ * Decimal number in a fixed field; NaN when blank or malformed. One integer accumulator divided
+ * by an exact power of ten: correctly rounded, the same double as parseFloat.
+ */
 function fieldFloat(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
-  const end = Math.min(e, lineEnd);
+  const end = e < lineEnd ? e : lineEnd;
   let i = s;
   while (i < end && buf[i] === SP) i++;
   if (i === end) return NaN;
   let neg = false;
-  if (buf[i] === 45 /* - */) {
+  let c = buf[i];
+  if (c === 45 /* - */) {
     neg = true;
     i++;
-  } else if (buf[i] === 43 /* + */) i++;
+  } else if (c === 43 /* + */) i++;
   let v = 0;
   let digits = 0;
-  while (i < end && buf[i] >= 48 && buf[i] <= 57) {
-    v = v * 10 + (buf[i] - 48);
-    i++;
-    digits++;
-  }
-  if (i < end && buf[i] === 46 /* . */) {
-    i++;
-    let scale = 1;
-    let f = 0;
-    while (i < end && buf[i] >= 48 && buf[i] <= 57) {
-      f = f * 10 + (buf[i] - 48);
-      scale *= 10;
-      i++;
+  let frac = -1;
+  for (; i < end; i++) {
+    c = buf[i];
+    if (c >= 48 && c <= 57) {
+      v = v * 10 + (c - 48);
       digits++;
-    }
-    v += f / scale;
+      if (frac >= 0) frac++;
+    } else if (c === 46 /* . */ && frac < 0) frac = 0;
+    else break;
   }
   while (i < end && buf[i] === SP) i++;
-  if (i !== end || digits === 0) return NaN;
+  if (i !== end || digits === 0 || digits > 15) return NaN;
+  if (frac > 0) v /= POW10[frac];
   return neg ? -v : v;
 }
 
@@ -101,11 +108,11 @@ class KeyedInterner {
   ) {}
   get(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
     const k = fieldKey(buf, s, e, lineEnd);
-    let v = this.map.get(k);
+    let v = k >= 0 ? this.map.get(k) : undefined;
     if (v === undefined) {
       const str = fieldStr(buf, s, e, lineEnd);
       v = this.b.intern(this.upper ? str.toUpperCase() : str);
-      this.map.set(k, v);
+      if (k >= 0) this.map.set(k, v);
     }
     return v;
   }
@@ -137,6 +144,7 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
   const elementByName = new Map<number, number>();
   let model = 1;
   let afterTer = false;
+  let prevAtomLine = -1;
   let id = '';
   const seqres = new Map<string, string[]>();
   const len = buf.length;
@@ -192,20 +200,32 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
       b.serial[i] = Number.isNaN(serial) ? i + 1 : serial;
       b.name[i] = names.get(buf, p + 12, p + 16, lineEnd);
       b.altloc[i] = singles.get(buf, p + 16, p + 17, lineEnd);
-      b.resName[i] = resNames.get(buf, p + 17, p + 21, lineEnd);
-      const ch = chains.get(buf, p + 21, p + 22, lineEnd);
-      b.chainAuth[i] = ch;
-      b.chainLabel[i] = ch;
-      const seq = fieldInt(buf, p + 22, p + 26, lineEnd);
-      if (Number.isNaN(seq)) {
-        throw lineError(
-          line,
-          'the residue number in columns 23–26 is not an integer; fix that line and upload again.',
-        );
+      let same = prevAtomLine >= 0 && i > 0 && lineEnd - p >= 27;
+      for (let q = 17; same && q < 27; q++) if (buf[p + q] !== buf[prevAtomLine + q]) same = false;
+      if (same) {
+        // columns 18–27 (residue name, chain, number, icode) as on the previous atom line
+        b.resName[i] = b.resName[i - 1];
+        b.chainAuth[i] = b.chainAuth[i - 1];
+        b.chainLabel[i] = b.chainLabel[i - 1];
+        b.authSeq[i] = b.authSeq[i - 1];
+        b.icode[i] = b.icode[i - 1];
+      } else {
+        b.resName[i] = resNames.get(buf, p + 17, p + 21, lineEnd);
+        const ch = chains.get(buf, p + 21, p + 22, lineEnd);
+        b.chainAuth[i] = ch;
+        b.chainLabel[i] = ch;
+        const seq = fieldInt(buf, p + 22, p + 26, lineEnd);
+        if (Number.isNaN(seq)) {
+          throw lineError(
+            line,
+            'the residue number in columns 23–26 is not an integer; fix that line and upload again.',
+          );
+        }
+        b.authSeq[i] = seq;
+        b.icode[i] = singles.get(buf, p + 26, p + 27, lineEnd);
       }
-      b.authSeq[i] = seq;
+      prevAtomLine = p;
       b.labelSeq[i] = NO_LABEL_SEQ;
-      b.icode[i] = singles.get(buf, p + 26, p + 27, lineEnd);
       b.modelNum[i] = model;
       b.hetatm[i] = isHet ? 1 : 0;
       if (afterTer) {
@@ -214,10 +234,10 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
       }
       if (isBlank(buf, p + 76, p + 78, lineEnd)) {
         const k = fieldKey(buf, p + 12, p + 14, lineEnd);
-        let el = elementByName.get(k);
+        let el = k >= 0 ? elementByName.get(k) : undefined;
         if (el === undefined) {
           el = b.intern(elementFromName(buf, p + 12, lineEnd));
-          elementByName.set(k, el);
+          if (k >= 0) elementByName.set(k, el);
         }
         b.element[i] = el;
       } else {

@@ -8,11 +8,14 @@ import type { Structure } from '../model/types';
 import { blockToStructure, parseBinaryCif, parseCifText } from './cif';
 import { StructureReadError } from './errors';
 import { DEFAULT_MAX_UNCOMPRESSED_BYTES, gunzipLimited, isGzip } from './gzip';
+import type { GunzipFunction } from './gzip';
 import { readPdb } from './pdb';
 
 export interface ReadOptions {
   /** ceiling on the decompressed size of gzip input (default 2 GiB) */
   maxUncompressedBytes?: number;
+  /** platform gunzip to use instead of the built-in pure-JS one (see GunzipFunction) */
+  gunzip?: GunzipFunction;
 }
 
 export interface SniffResult {
@@ -105,7 +108,11 @@ export function sniffStructure(
   let bytes = input;
   let gzip = false;
   if (isGzip(bytes)) {
-    bytes = gunzipLimited(bytes, options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED_BYTES);
+    bytes = gunzipLimited(
+      bytes,
+      options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED_BYTES,
+      options.gunzip,
+    );
     gzip = true;
     if (bytes.length === 0) {
       throw new StructureReadError(

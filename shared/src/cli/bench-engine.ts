@@ -1,0 +1,176 @@
+/**
+ * Engine benchmark (readers + backbone torsions + full report), run by `npm run bench`
+ * (scripts/bench.sh). Node edge: reads files, spawns gemmi and a child process for peak RSS.
+ *
+ *   node shared/dist/cli/bench-engine.js [--reference-set DIR] [--atoms 1000000] [--skip-reference-set]
+ *
+ * 1. The reference set (1,100 PDB files): read + phi/psi/omega, ours vs gemmi in the same run.
+ * 2. A 1,000,000-atom model tiled from real chains (written once as mmCIF to a temp folder):
+ *    read + phi/psi/omega, ours vs gemmi; then the full report in a child process (time, peak
+ *    RSS), and the same for a 100,000-atom model (linearity).
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { readStructure } from '../io/read';
+import { buildConformers } from '../model/conformers';
+import { computeBackboneTorsions } from '../validation/torsions';
+import { nodeGunzip } from './node-gunzip';
+import { tiledCif } from './tile';
+
+const ROOT = resolve(__dirname, '../../..');
+const GEMMI_SCRIPT = join(ROOT, 'scripts/bench/gemmi_torsions.py');
+const CHILD = join(__dirname, 'bench-report-child.js');
+const PY = '/usr/bin/python3';
+
+// Bars from issue 3 (performance bars of `npm run bench`).
+const BAR_RATIO = 1.0;
+const AIM_RATIO = 0.5;
+const BAR_REPORT_S = 10;
+const BAR_RSS_MB = 2.5 * 1024;
+const BAR_LINEAR = 1 / 8;
+
+interface GemmiResult {
+  seconds: number;
+  files: number;
+  residues: number;
+  phiDefined: number;
+}
+
+function gemmi(files: string[], dir: string): GemmiResult {
+  const list = join(dir, 'files.txt');
+  writeFileSync(list, files.join('\n'));
+  return JSON.parse(
+    execFileSync(PY, [GEMMI_SCRIPT, '@' + list], { encoding: 'utf8', maxBuffer: 1 << 20 }),
+  ) as GemmiResult;
+}
+
+/** Read + phi/psi/omega of every model of every file; returns seconds and torsion counts. */
+async function ours(
+  files: string[],
+): Promise<{ seconds: number; residues: number; phiDefined: number }> {
+  const t0 = performance.now();
+  let residues = 0;
+  let phiDefined = 0;
+  for (const f of files) {
+    const s = await readStructure(readFileSync(f), f, { gunzip: nodeGunzip });
+    for (const m of s.models) {
+      const t = buildConformers(s, m);
+      const tor = computeBackboneTorsions(m, t);
+      residues += m.residues.count;
+      for (let k = 0; k < t.count; k++) if (!Number.isNaN(tor.phi[k])) phiDefined++;
+    }
+  }
+  return { seconds: (performance.now() - t0) / 1000, residues, phiDefined };
+}
+
+function fmt(s: number): string {
+  return s.toFixed(2) + ' s';
+}
+
+function verdict(ok: boolean): string {
+  return ok ? 'PASS' : 'FAIL';
+}
+
+interface ChildResult {
+  seconds: number;
+  maxRssMB: number;
+  rows: number;
+  timings: Record<string, number>;
+}
+
+function stepLine(c: ChildResult): string {
+  return Object.entries(c.timings)
+    .sort((x, y) => y[1] - x[1])
+    .map(([k, v]) => `${k} ${(v / 1000).toFixed(2)} s`)
+    .join(', ');
+}
+
+function child(file: string): ChildResult {
+  const out = execFileSync(process.execPath, ['--max-old-space-size=4096', CHILD, file], {
+    encoding: 'utf8',
+    maxBuffer: 1 << 20,
+  });
+  return JSON.parse(out) as ChildResult;
+}
+
+async function main(): Promise<void> {
+  const args = process.argv.slice(2);
+  const opt = (name: string, dflt: string): string => {
+    const i = args.indexOf(name);
+    return i >= 0 && args[i + 1] !== undefined ? args[i + 1] : dflt;
+  };
+  const refDir = resolve(opt('--reference-set', join(ROOT, '../shared/data/reference-set')));
+  const bigAtoms = Number(opt('--atoms', '1000000'));
+  const work = mkdtempSync(join(tmpdir(), 'foldfolio-bench-'));
+  let failures = 0;
+  try {
+    // 1. reference set (--skip-reference-set: only the tiled models)
+    const skipRef = args.includes('--skip-reference-set');
+    const files = readdirSync(refDir)
+      .filter((f) => /\.(pdb|ent|cif|bcif)(\.gz)?$/i.test(f))
+      .sort()
+      .map((f) => join(refDir, f))
+      .slice(0, skipRef ? 0 : undefined);
+    if (!skipRef) console.log(`reference set: ${files.length} files in ${refDir}`);
+    if (!skipRef) {
+      await ours(files.slice(0, 20)); // warm-up (JIT), not timed
+      const a = await ours(files);
+      const g = gemmi(files, work);
+      const ratio = a.seconds / g.seconds;
+      console.log(
+        `  read + phi/psi/omega   foldfolio ${fmt(a.seconds)}   gemmi ${fmt(g.seconds)}   ratio ${ratio.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×, aim ≤ ${AIM_RATIO}×) ${verdict(ratio <= BAR_RATIO)}`,
+      );
+      console.log(
+        `  residues ${a.residues} (gemmi ${g.residues}); phi defined ${a.phiDefined} (gemmi, no break test: ${g.phiDefined})`,
+      );
+      if (ratio > BAR_RATIO) failures++;
+    }
+
+    // 2. tiled models
+    const srcPath = join(ROOT, 'shared/test/fixtures/2XHE.cif');
+    const src = await readStructure(readFileSync(srcPath), srcPath);
+    const big = tiledCif(src, bigAtoms);
+    const bigFile = join(work, `tiled-${big.atoms}.cif`);
+    writeFileSync(bigFile, big.text);
+    const small = tiledCif(src, Math.round(bigAtoms / 10));
+    const smallFile = join(work, `tiled-${small.atoms}.cif`);
+    writeFileSync(smallFile, small.text);
+    console.log(
+      `tiled model: ${big.atoms} atoms (protein chains of 2XHE, copies 150 Å apart), ${(big.text.length / 1e6).toFixed(0)} MB mmCIF`,
+    );
+    await ours([smallFile]); // warm-up (JIT) on the small model, not timed
+    const b = await ours([bigFile]);
+    const gb = gemmi([bigFile], work);
+    const rb = b.seconds / gb.seconds;
+    console.log(
+      `  read + phi/psi/omega   foldfolio ${fmt(b.seconds)}   gemmi ${fmt(gb.seconds)}   ratio ${rb.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×) ${verdict(rb <= BAR_RATIO)}`,
+    );
+    if (rb > BAR_RATIO) failures++;
+    const full = child(bigFile);
+    const okTime = full.seconds < BAR_REPORT_S;
+    const okRss = full.maxRssMB < BAR_RSS_MB;
+    console.log(
+      `  full report            ${fmt(full.seconds)} (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${full.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${full.rows} residue rows`,
+    );
+    console.log(`    steps: ${stepLine(full)}`);
+    const part = child(smallFile);
+    const frac = part.seconds / full.seconds;
+    console.log(
+      `  full report, ${small.atoms} atoms: ${fmt(part.seconds)} = ${frac.toFixed(3)} of the 1M time (bar ≤ ${BAR_LINEAR.toFixed(3)}) ${verdict(frac <= BAR_LINEAR)}   peak RSS ${part.maxRssMB.toFixed(0)} MB`,
+    );
+    console.log(`    steps: ${stepLine(part)}`);
+    if (!okTime) failures++;
+    if (!okRss) failures++;
+    if (frac > BAR_LINEAR) failures++;
+  } finally {
+    rmSync(work, { recursive: true, force: true });
+  }
+  console.log(`engine bench: ${failures === 0 ? 'all bars met' : `${failures} bar(s) missed`}`);
+}
+
+main().catch((e: unknown) => {
+  console.error(`engine bench failed: ${e instanceof Error ? e.stack : String(e)}`);
+  process.exitCode = 1;
+});

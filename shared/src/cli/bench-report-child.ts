@@ -1,0 +1,30 @@
+/**
+ * Child process of the engine bench: builds the full report of one file and prints its time
+ * and the process's peak RSS as JSON (a fresh process, so the peak belongs to this report).
+ */
+import { readFileSync } from 'node:fs';
+import { buildReport } from '../report/build';
+import { nodeGunzip } from './node-gunzip';
+
+async function main(): Promise<void> {
+  const file = process.argv[2];
+  const t0 = performance.now();
+  const timings: Record<string, number> = {};
+  const bytes = readFileSync(file);
+  const report = await buildReport(bytes, { filename: file, gunzip: nodeGunzip, timings });
+  const json = JSON.stringify(report);
+  const seconds = (performance.now() - t0) / 1000;
+  let rows = 0;
+  for (const m of report.models) rows += m.residues.length;
+  // resourceUsage().maxRSS is in kilobytes (Node docs)
+  const maxRssMB = process.resourceUsage().maxRSS / 1024;
+  for (const k of Object.keys(timings)) timings[k] = Math.round(timings[k]);
+  process.stdout.write(
+    JSON.stringify({ seconds, maxRssMB, rows, jsonBytes: json.length, timings }),
+  );
+}
+
+main().catch((e: unknown) => {
+  process.stderr.write(`bench child failed: ${e instanceof Error ? e.message : String(e)}\n`);
+  process.exitCode = 1;
+});
