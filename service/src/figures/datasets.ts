@@ -60,27 +60,41 @@ export function torsionResidues(
   return out;
 }
 
-/** Cells of a region grid merged into horizontal runs along phi, one rectangle per run. */
+/** Cells of a region grid merged into runs along phi, and equal runs of neighbouring psi rows into one rectangle. */
 export function gridRuns(
   grid: RegionGrid,
   level: number,
 ): { x0: number; x1: number; y0: number; y1: number }[] {
   const out: { x0: number; x1: number; y0: number; y1: number }[] = [];
   const { size, stepDeg, codes } = grid;
+  // open rectangles keyed by their phi extent, extended while the next psi row has the same run
+  let open = new Map<string, { x0: number; x1: number; y0: number; y1: number }>();
   for (let j = 0; j < size; j++) {
+    const next = new Map<string, { x0: number; x1: number; y0: number; y1: number }>();
     let i = 0;
     while (i < size) {
       if (codes[i * size + j] >= level) {
         const start = i;
         while (i < size && codes[i * size + j] >= level) i++;
-        out.push({
-          x0: -180 + start * stepDeg,
-          x1: -180 + i * stepDeg,
-          y0: -180 + j * stepDeg,
-          y1: -180 + (j + 1) * stepDeg,
-        });
+        const key = `${start}:${i}`;
+        const prev = open.get(key);
+        if (prev) {
+          prev.y1 = -180 + (j + 1) * stepDeg;
+          next.set(key, prev);
+          open.delete(key);
+        } else {
+          const r = {
+            x0: -180 + start * stepDeg,
+            x1: -180 + i * stepDeg,
+            y0: -180 + j * stepDeg,
+            y1: -180 + (j + 1) * stepDeg,
+          };
+          out.push(r);
+          next.set(key, r);
+        }
       } else i++;
     }
+    open = next;
   }
   return out;
 }

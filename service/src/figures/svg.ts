@@ -75,7 +75,13 @@ export function finishSvg(raw: string, preset: Preset, opts: FinishOptions = {})
   const { widthPx, heightPx } = svgSize(raw);
   const widthMm = preset.widthMm;
   const heightMm = Math.round((heightPx / widthPx) * widthMm * 1000) / 1000;
+  // 3 decimals of a point (0.35 µm) are far below print resolution and keep files small
+  const round3 = (m: string) => String(Math.round(Number(m) * 1000) / 1000);
   let svg = raw.replace(
+    / (d|transform|x1|x2|y1|y2|x|y|width|height)="([^"]*)"/g,
+    (_w, attr: string, val: string) => ` ${attr}="${val.replace(/-?\d+\.\d{4,}/g, round3)}"`,
+  );
+  svg = svg.replace(
     /<svg([^>]*?) width="[\d.]+" height="[\d.]+"/,
     `<svg$1 width="${widthMm}mm" height="${heightMm}mm"`,
   );
