@@ -140,26 +140,40 @@ export function assignSecondaryStructure(
   const acc1 = new Int32Array(n).fill(-1);
   const e0 = new Float64Array(n);
   const e1 = new Float64Array(n);
+  const pro = new Uint8Array(n);
+  for (let i = 0; i < n; i++) pro[i] = isPro(i) ? 1 : 0;
+  // Hot loop (every residue pair with CA closer than 9 Å): distances inlined.
   const energy = (d: number, a: number): void => {
-    let e = 0;
-    if (!isPro(d)) {
-      const dHO = dist(H, d, O, a);
-      const dHC = dist(H, d, C, a);
-      const dNC = dist(N, d, C, a);
-      const dNO = dist(N, d, O, a);
-      if (
-        dHO < MIN_DISTANCE_A ||
-        dHC < MIN_DISTANCE_A ||
-        dNC < MIN_DISTANCE_A ||
-        dNO < MIN_DISTANCE_A
-      ) {
-        e = MIN_ENERGY;
-      } else {
-        e = COUPLING / dHO - COUPLING / dHC + COUPLING / dNC - COUPLING / dNO;
-      }
-      e = roundHalfAway(e * 1000) / 1000;
-      if (e < MIN_ENERGY) e = MIN_ENERGY;
+    if (pro[d] === 1) return; // E = 0 never enters the best-two lists (they start at 0)
+    const hx = H[3 * d];
+    const hy = H[3 * d + 1];
+    const hz = H[3 * d + 2];
+    const nx = N[3 * d];
+    const ny = N[3 * d + 1];
+    const nz = N[3 * d + 2];
+    const ox = O[3 * a];
+    const oy = O[3 * a + 1];
+    const oz = O[3 * a + 2];
+    const cx = C[3 * a];
+    const cy = C[3 * a + 1];
+    const cz = C[3 * a + 2];
+    const dHO = Math.sqrt((hx - ox) ** 2 + (hy - oy) ** 2 + (hz - oz) ** 2);
+    const dHC = Math.sqrt((hx - cx) ** 2 + (hy - cy) ** 2 + (hz - cz) ** 2);
+    const dNC = Math.sqrt((nx - cx) ** 2 + (ny - cy) ** 2 + (nz - cz) ** 2);
+    const dNO = Math.sqrt((nx - ox) ** 2 + (ny - oy) ** 2 + (nz - oz) ** 2);
+    let e: number;
+    if (
+      dHO < MIN_DISTANCE_A ||
+      dHC < MIN_DISTANCE_A ||
+      dNC < MIN_DISTANCE_A ||
+      dNO < MIN_DISTANCE_A
+    ) {
+      e = MIN_ENERGY;
+    } else {
+      e = COUPLING / dHO - COUPLING / dHC + COUPLING / dNC - COUPLING / dNO;
     }
+    e = roundHalfAway(e * 1000) / 1000;
+    if (e < MIN_ENERGY) e = MIN_ENERGY;
     if (e < e0[d]) {
       acc1[d] = acc0[d];
       e1[d] = e0[d];
@@ -199,8 +213,29 @@ export function assignSecondaryStructure(
 
   // Bridges and ladders.
   const bridges: Bridge[] = [];
+  // Every bridge pattern contains an H-bond between {i−1, i, i+1} and {j−1, j, j+1}, so only
+  // partners of those bonds are candidates: linear cost instead of testing all pairs. They are
+  // visited in ascending j, the order of the published program's double loop.
+  const donorsOf: number[][] = Array.from({ length: n }, () => []);
+  for (let d = 0; d < n; d++) {
+    if (acc0[d] >= 0 && e0[d] < MAX_HBOND_ENERGY) donorsOf[acc0[d]].push(d);
+    if (acc1[d] >= 0 && e1[d] < MAX_HBOND_ENERGY) donorsOf[acc1[d]].push(d);
+  }
+  const candidates = new Set<number>();
+  const addAround = (y: number): void => {
+    candidates.add(y - 1);
+    candidates.add(y);
+    candidates.add(y + 1);
+  };
   for (let i = 1; i + 4 < n; i++) {
-    for (let j = i + 3; j + 1 < n; j++) {
+    candidates.clear();
+    for (let x = i - 1; x <= i + 1; x++) {
+      if (acc0[x] >= 0 && e0[x] < MAX_HBOND_ENERGY) addAround(acc0[x]);
+      if (acc1[x] >= 0 && e1[x] < MAX_HBOND_ENERGY) addAround(acc1[x]);
+      for (const d of donorsOf[x]) addAround(d);
+    }
+    const js = [...candidates].filter((j) => j >= i + 3 && j + 1 < n).sort((p, q) => p - q);
+    for (const j of js) {
       if (!noBreak(i - 1, i + 1) || !noBreak(j - 1, j + 1)) continue;
       const a = i - 1;
       const b = i;
@@ -238,6 +273,10 @@ export function assignSecondaryStructure(
     for (let y = x + 1; y < bridges.length; y++) {
       const bx = bridges[x];
       const by = bridges[y];
+      // Sorted by chain and first residue: a bridge of another chain, or one starting six or more
+      // residues after bx ends, can never merge, nor can any later one (bx only grows at its end
+      // through merges, which need exactly such a close bridge). Same result as the full loop.
+      if (by.chain !== bx.chain || by.i[0] - bx.i[bx.i.length - 1] >= 6) break;
       const ibi = bx.i[0];
       const iei = bx.i[bx.i.length - 1];
       const jbi = bx.j[0];

@@ -15,6 +15,7 @@
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
+import { STANDARD_AMINO_ACIDS } from '../io/residue-tables';
 import { caCbBond, cbAngles } from './ideal/engh-huber';
 import type { AtomColumns } from '../model/types';
 
@@ -75,7 +76,9 @@ export function analyseChirality(
   for (let r = 0; r < model.residues.count; r++) {
     if (model.residues.kind[r] !== ResidueKind.Protein) continue;
     const parent = structure.strings[model.residues.parent[r]];
-    if (parent === 'GLY') continue;
+    // Standard amino acids only (modified ones through their parent): the CA/CB names of other
+    // components need not mean an alpha carbon and its beta substituent.
+    if (parent === 'GLY' || !STANDARD_AMINO_ACIDS.has(parent)) continue;
     let anyD = false;
     let anyOut = false;
     for (let k = t.firstOfResidue[r]; k < t.firstOfResidue[r] + t.countOfResidue[r]; k++) {

@@ -4,13 +4,15 @@
  * and the peptide bond C(i)–N(i+1) with the angles across it. RMSD, RMS-Z and the terms beyond
  * 4σ (common practice, no source) are reported per model.
  *
- * Every conformer is measured (altlocs: a residue is an outlier if any conformer is); a term
+ * Only residues whose parent is a standard amino acid are measured (modified residues through
+ * their parent, e.g. MSE as MET); other components are skipped. Every conformer is measured (altlocs: a residue is an outlier if any conformer is); a term
  * shared by two conformers is counted once per conformer. Terms across a chain break
  * (C(i)–N(i+1) > 2.0 Å, see model/conformers.ts) are not measured.
  */
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
+import { STANDARD_AMINO_ACIDS } from '../io/residue-tables';
 import type { GeometryOutlier, GeometryStats } from '../report/types';
 import {
   BACKBONE_ANGLES,
@@ -57,6 +59,20 @@ export function parentName(structure: Structure, model: Model, residue: number):
   return structure.strings[model.residues.parent[residue]];
 }
 
+// Atom-name lists of the terms (one shared array each: also the keys of the mean-bond table).
+const T_N_CA = ['N', 'CA'] as const;
+const T_CA_C = ['CA', 'C'] as const;
+const T_C_O = ['C', 'O'] as const;
+const T_N_CA_C = ['N', 'CA', 'C'] as const;
+const T_CA_C_O = ['CA', 'C', 'O'] as const;
+const T_CA_CB = ['CA', 'CB'] as const;
+const T_N_CA_CB = ['N', 'CA', 'CB'] as const;
+const T_CB_CA_C = ['CB', 'CA', 'C'] as const;
+const T_C_N = ['C', 'N+'] as const;
+const T_CA_C_N = ['CA', 'C', 'N+'] as const;
+const T_O_C_N = ['O', 'C', 'N+'] as const;
+const T_C_N_CA = ['C', 'N+', 'CA+'] as const;
+
 /** Measures every covalent term of every protein conformer of the model. */
 export function analyseCovalent(
   structure: Structure,
@@ -68,13 +84,13 @@ export function analyseCovalent(
   const angleZMax = new Float64Array(t.count).fill(NaN);
   const sums = { bond: [0, 0, 0], angle: [0, 0, 0] }; // count, Σd², Σz²
   const outCount = { bond: 0, angle: 0 };
-  const meanAcc: Record<string, { sum: number; count: number }> = {};
+  const meanAcc = new Map<readonly string[], { sum: number; count: number }>();
   const outliers: CovalentTerm[] = [];
 
   const add = (
     k: number,
     kind: 'bond' | 'angle',
-    names: string[],
+    names: readonly string[],
     observed: number,
     ref: IdealValue,
   ): void => {
@@ -85,25 +101,26 @@ export function analyseCovalent(
     s[1] += d * d;
     s[2] += z * z;
     const zmax = kind === 'bond' ? bondZMax : angleZMax;
-    if (!(Math.abs(z) <= zmax[k])) zmax[k] = Math.abs(z);
-    const term: CovalentTerm = {
-      conformer: k,
-      kind,
-      atoms: names,
-      observed,
-      ideal: ref.ideal,
-      sigma: ref.sigma,
-      z,
-    };
-    if (Math.abs(z) > COVALENT_OUTLIER_Z) {
+    const az = Math.abs(z);
+    if (!(az <= zmax[k])) zmax[k] = az;
+    if (az > COVALENT_OUTLIER_Z) {
       outCount[kind]++;
-      outliers.push(term);
+      outliers.push({
+        conformer: k,
+        kind,
+        atoms: [...names],
+        observed,
+        ideal: ref.ideal,
+        sigma: ref.sigma,
+        z,
+      });
     }
     if (kind === 'bond') {
-      const key = names.join('-');
-      const m = (meanAcc[key] ??= { sum: 0, count: 0 });
-      m.sum += observed;
-      m.count++;
+      const m = meanAcc.get(names);
+      if (m) {
+        m.sum += observed;
+        m.count++;
+      } else meanAcc.set(names, { sum: observed, count: 1 });
     }
   };
 
@@ -111,6 +128,9 @@ export function analyseCovalent(
     const r = t.residue[k];
     if (model.residues.kind[r] !== ResidueKind.Protein) continue;
     const parent = parentName(structure, model, r);
+    // Engh & Huber values apply to the standard amino acids (and modified ones through their
+    // parent); other components may reuse the names CA, C… for different chemistry.
+    if (!STANDARD_AMINO_ACIDS.has(parent)) continue;
     const cls = residueClass(parent);
     const n = t.n[k];
     const ca = t.ca[k];
@@ -118,22 +138,21 @@ export function analyseCovalent(
     const o = t.o[k];
     const cb = t.cb[k];
     if (n >= 0 && ca >= 0)
-      add(k, 'bond', ['N', 'CA'], distanceA(atoms, n, ca), BACKBONE_BONDS['N-CA'][cls]);
+      add(k, 'bond', T_N_CA, distanceA(atoms, n, ca), BACKBONE_BONDS['N-CA'][cls]);
     if (ca >= 0 && c >= 0)
-      add(k, 'bond', ['CA', 'C'], distanceA(atoms, ca, c), BACKBONE_BONDS['CA-C'][cls]);
-    if (c >= 0 && o >= 0)
-      add(k, 'bond', ['C', 'O'], distanceA(atoms, c, o), BACKBONE_BONDS['C-O'][cls]);
+      add(k, 'bond', T_CA_C, distanceA(atoms, ca, c), BACKBONE_BONDS['CA-C'][cls]);
+    if (c >= 0 && o >= 0) add(k, 'bond', T_C_O, distanceA(atoms, c, o), BACKBONE_BONDS['C-O'][cls]);
     if (n >= 0 && ca >= 0 && c >= 0) {
-      add(k, 'angle', ['N', 'CA', 'C'], angleDeg(atoms, n, ca, c), BACKBONE_ANGLES['N-CA-C'][cls]);
+      add(k, 'angle', T_N_CA_C, angleDeg(atoms, n, ca, c), BACKBONE_ANGLES['N-CA-C'][cls]);
     }
     if (ca >= 0 && c >= 0 && o >= 0) {
-      add(k, 'angle', ['CA', 'C', 'O'], angleDeg(atoms, ca, c, o), BACKBONE_ANGLES['CA-C-O'][cls]);
+      add(k, 'angle', T_CA_C_O, angleDeg(atoms, ca, c, o), BACKBONE_ANGLES['CA-C-O'][cls]);
     }
     if (cb >= 0 && ca >= 0 && cls !== 'gly') {
-      add(k, 'bond', ['CA', 'CB'], distanceA(atoms, ca, cb), caCbBond(parent));
+      add(k, 'bond', T_CA_CB, distanceA(atoms, ca, cb), caCbBond(parent));
       const ang = cbAngles(parent);
-      if (n >= 0) add(k, 'angle', ['N', 'CA', 'CB'], angleDeg(atoms, n, ca, cb), ang.nCaCb);
-      if (c >= 0) add(k, 'angle', ['CB', 'CA', 'C'], angleDeg(atoms, cb, ca, c), ang.cbCaC);
+      if (n >= 0) add(k, 'angle', T_N_CA_CB, angleDeg(atoms, n, ca, cb), ang.nCaCb);
+      if (c >= 0) add(k, 'angle', T_CB_CA_C, angleDeg(atoms, cb, ca, c), ang.cbCaC);
     }
     const q = t.next[k];
     if (q < 0 || c < 0) continue;
@@ -141,22 +160,17 @@ export function analyseCovalent(
     const nca = t.ca[q];
     if (nn < 0) continue;
     const nextParent = parentName(structure, model, t.residue[q]);
+    if (!STANDARD_AMINO_ACIDS.has(nextParent)) continue;
     // Pro N takes the proline column; otherwise this residue's Gly carbonyl/CA the glycine column.
     const pepCls = nextParent === 'PRO' ? 'pro' : cls === 'gly' ? 'gly' : 'general';
-    add(k, 'bond', ['C', 'N+'], distanceA(atoms, c, nn), PEPTIDE_BOND[pepCls]);
+    add(k, 'bond', T_C_N, distanceA(atoms, c, nn), PEPTIDE_BOND[pepCls]);
     if (ca >= 0)
-      add(
-        k,
-        'angle',
-        ['CA', 'C', 'N+'],
-        angleDeg(atoms, ca, c, nn),
-        PEPTIDE_ANGLES['CA-C-N'][pepCls],
-      );
+      add(k, 'angle', T_CA_C_N, angleDeg(atoms, ca, c, nn), PEPTIDE_ANGLES['CA-C-N'][pepCls]);
     if (o >= 0)
-      add(k, 'angle', ['O', 'C', 'N+'], angleDeg(atoms, o, c, nn), PEPTIDE_ANGLES['O-C-N'][pepCls]);
+      add(k, 'angle', T_O_C_N, angleDeg(atoms, o, c, nn), PEPTIDE_ANGLES['O-C-N'][pepCls]);
     if (nca >= 0) {
       const cis = ca >= 0 && Math.abs(torsionDeg(atoms, ca, c, nn, nca)) < 30;
-      add(k, 'angle', ['C', 'N+', 'CA+'], angleDeg(atoms, c, nn, nca), cNCaAngle(nextParent, cis));
+      add(k, 'angle', T_C_N_CA, angleDeg(atoms, c, nn, nca), cNCaAngle(nextParent, cis));
     }
   }
 
@@ -170,8 +184,8 @@ export function analyseCovalent(
     };
   };
   const meanBondA: Record<string, { mean: number; count: number }> = {};
-  for (const [key, m] of Object.entries(meanAcc))
-    meanBondA[key] = { mean: m.sum / m.count, count: m.count };
+  for (const [names, m] of meanAcc)
+    meanBondA[names.join('-')] = { mean: m.sum / m.count, count: m.count };
   return { bonds: stats('bond'), angles: stats('angle'), outliers, bondZMax, angleZMax, meanBondA };
 }
 

@@ -39,11 +39,15 @@ export const PEPTIDE_BOND: Record<ResidueClass, IdealValue> = {
 };
 
 /** CA–CB by substitution at CB (Table 18.3.2.1 (a)): CH3 Ala, CH Ile/Thr/Val, CH2 others; Pro. */
+const CA_CB_CH3 = v(1.521, 0.033);
+const CA_CB_CH = v(1.542, 0.023);
+const CA_CB_PRO = v(1.531, 0.02);
+const CA_CB_CH2 = v(1.535, 0.022);
 export function caCbBond(parent: string): IdealValue {
-  if (parent === 'ALA') return v(1.521, 0.033);
-  if (parent === 'ILE' || parent === 'THR' || parent === 'VAL') return v(1.542, 0.023);
-  if (parent === 'PRO') return v(1.531, 0.02);
-  return v(1.535, 0.022);
+  if (parent === 'ALA') return CA_CB_CH3;
+  if (parent === 'ILE' || parent === 'THR' || parent === 'VAL') return CA_CB_CH;
+  if (parent === 'PRO') return CA_CB_PRO;
+  return CA_CB_CH2;
 }
 
 /** Intra-residue backbone angles (Table 18.3.2.1 (b)). */
@@ -59,20 +63,27 @@ export const PEPTIDE_ANGLES: Record<'CA-C-N' | 'O-C-N', Record<ResidueClass, Ide
 };
 
 /** C(i)–N(i+1)–CA(i+1) (Table 18.3.2.1 (b)); Pro has separate trans and cis values. */
+const C_N_CA_PRO_CIS = v(127.0, 2.4);
+const C_N_CA_PRO_TRANS = v(119.3, 1.5);
+const C_N_CA_GLY = v(122.3, 2.1);
+const C_N_CA = v(121.7, 2.5);
 export function cNCaAngle(nextParent: string, cisPeptide: boolean): IdealValue {
-  if (nextParent === 'PRO') return cisPeptide ? v(127.0, 2.4) : v(119.3, 1.5);
-  if (nextParent === 'GLY') return v(122.3, 2.1);
-  return v(121.7, 2.5);
+  if (nextParent === 'PRO') return cisPeptide ? C_N_CA_PRO_CIS : C_N_CA_PRO_TRANS;
+  if (nextParent === 'GLY') return C_N_CA_GLY;
+  return C_N_CA;
 }
 
 /**
  * N–CA–CB and CB–CA–C (Table 18.3.2.1 (b)): Ala uses the CH3 row, Pro its own column, the
  * others the "all" row (the table also splits CH and CH2; we use the pooled row for them).
  */
+const CB_ANGLES_ALA = { nCaCb: v(110.4, 1.5), cbCaC: v(110.5, 1.5) };
+const CB_ANGLES_PRO = { nCaCb: v(103.1, 1.2), cbCaC: v(111.8, 2.0) };
+const CB_ANGLES_ALL = { nCaCb: v(110.6, 2.1), cbCaC: v(110.6, 2.3) };
 export function cbAngles(parent: string): { nCaCb: IdealValue; cbCaC: IdealValue } {
-  if (parent === 'ALA') return { nCaCb: v(110.4, 1.5), cbCaC: v(110.5, 1.5) };
-  if (parent === 'PRO') return { nCaCb: v(103.1, 1.2), cbCaC: v(111.8, 2.0) };
-  return { nCaCb: v(110.6, 2.1), cbCaC: v(110.6, 2.3) };
+  if (parent === 'ALA') return CB_ANGLES_ALA;
+  if (parent === 'PRO') return CB_ANGLES_PRO;
+  return CB_ANGLES_ALL;
 }
 
 export function residueClass(parent: string): ResidueClass {
