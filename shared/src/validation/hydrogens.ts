@@ -15,7 +15,7 @@
  */
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
-import { buildConformers, conformerAtoms, type ConformerTable } from '../model/conformers';
+import { buildConformers, type ConformerTable } from '../model/conformers';
 
 export type XhConvention = 'nuclear' | 'electron-cloud';
 
@@ -292,16 +292,68 @@ function lengthFor(conv: XhConvention, parentEl: El, type: GroupType): number {
   return t.S;
 }
 
-interface Pending {
-  x: number;
-  y: number;
-  z: number;
-  residue: number;
-  altloc: number;
-  name: string;
-  parent: number;
-  rotatable: boolean;
+/** Growable column store for the added hydrogens (no object per atom). */
+class AddedColumns {
+  n = 0;
+  cap: number;
+  x: Float64Array;
+  y: Float64Array;
+  z: Float64Array;
+  residue: Int32Array;
+  altloc: Int32Array;
+  name: Int32Array;
+  parent: Int32Array;
+  rotatable: Uint8Array;
+  constructor(cap: number) {
+    this.cap = Math.max(16, cap);
+    this.x = new Float64Array(this.cap);
+    this.y = new Float64Array(this.cap);
+    this.z = new Float64Array(this.cap);
+    this.residue = new Int32Array(this.cap);
+    this.altloc = new Int32Array(this.cap);
+    this.name = new Int32Array(this.cap);
+    this.parent = new Int32Array(this.cap);
+    this.rotatable = new Uint8Array(this.cap);
+  }
+  private grow(): void {
+    this.cap *= 2;
+    const g = <T extends Float64Array | Int32Array | Uint8Array>(a: T): T => {
+      const b = new (a.constructor as new (n: number) => T)(this.cap);
+      b.set(a);
+      return b;
+    };
+    this.x = g(this.x);
+    this.y = g(this.y);
+    this.z = g(this.z);
+    this.residue = g(this.residue);
+    this.altloc = g(this.altloc);
+    this.name = g(this.name);
+    this.parent = g(this.parent);
+    this.rotatable = g(this.rotatable);
+  }
+  push(
+    p: V,
+    residue: number,
+    altloc: number,
+    name: number,
+    parent: number,
+    rotatable: boolean,
+  ): void {
+    if (this.n === this.cap) this.grow();
+    const i = this.n++;
+    this.x[i] = p[0];
+    this.y[i] = p[1];
+    this.z[i] = p[2];
+    this.residue[i] = residue;
+    this.altloc[i] = altloc;
+    this.name[i] = name;
+    this.parent[i] = parent;
+    this.rotatable[i] = rotatable ? 1 : 0;
+  }
 }
+
+/** A group spec with atom names resolved to indices into the name table. */
+type ResolvedSpec = [parent: number, names: number[], type: GroupType, refs: number[]];
 
 /**
  * Add riding hydrogens to every protein residue conformer of `model` that has no hydrogens.
@@ -318,14 +370,55 @@ export function addRidingHydrogens(
   const S = structure.strings;
   const atoms = model.atoms;
   const { kind, parent: parentName, atomStart, atomEnd } = model.residues;
-  const pending: Pending[] = [];
+  // Name table: the structure's strings, then H names it lacks. Model atoms keep their indices.
+  const names = S.slice();
+  const nameIndex = new Map<string, number>();
+  for (let i = names.length - 1; i >= 0; i--) nameIndex.set(names[i], i);
+  const intern = (nm: string): number => {
+    let i = nameIndex.get(nm);
+    if (i === undefined) {
+      i = names.length;
+      names.push(nm);
+      nameIndex.set(nm, i);
+    }
+    return i;
+  };
+  const elOfStr = new Uint8Array(S.length);
+  for (let i = 0; i < S.length; i++) elOfStr[i] = elementCode(S[i]);
+  const m = atoms.count;
   let deposited = 0;
-  for (let i = 0; i < atoms.count; i++) if (elementCode(S[atoms.element[i]]) === El.H) deposited++;
-  const pos = (i: number): V => [atoms.x[i], atoms.y[i], atoms.z[i]];
   const hasH = new Uint8Array(model.residues.count);
-  for (let r = 0; r < model.residues.count; r++)
-    for (let i = atomStart[r]; i < atomEnd[r]; i++)
-      if (elementCode(S[atoms.element[i]]) === El.H) hasH[r] = 1;
+  for (let i = 0; i < m; i++)
+    if (elOfStr[atoms.element[i]] === El.H) {
+      deposited++;
+      hasH[atoms.residue[i]] = 1;
+    }
+  const resolved = new Map<string, ResolvedSpec[]>();
+  const specsFor = (res: string): ResolvedSpec[] => {
+    let r = resolved.get(res);
+    if (!r) {
+      r = (SIDE_CHAIN[res] ?? []).map(([p, nm, ty, refs]) => [
+        intern(p),
+        nm.map(intern),
+        ty,
+        refs.map(intern),
+      ]);
+      resolved.set(res, r);
+    }
+    return r;
+  };
+  const nH = intern('H');
+  const nH123 = ['H1', 'H2', 'H3'].map(intern);
+  const nHA = intern('HA');
+  const nHA23 = ['HA2', 'HA3'].map(intern);
+  for (const res of Object.keys(SIDE_CHAIN)) specsFor(res); // intern every name before sizing `slot`
+  // slot[name] = atom index of the current conformer, -1 otherwise (reset after each conformer)
+  const slot = new Int32Array(names.length).fill(-1);
+  const out = new AddedColumns(Math.ceil(m * 1.1));
+  const ax = atoms.x;
+  const ay = atoms.y;
+  const az = atoms.z;
+  const pos = (i: number): V => [ax[i], ay[i], az[i]];
 
   for (let k = 0; k < t.count; k++) {
     const r = t.residue[k];
@@ -333,27 +426,17 @@ export function addRidingHydrogens(
     const firstConformer = k === t.firstOfResidue[r];
     const confAlt = t.altloc[k];
     const res = S[parentName[r]];
-    const map = conformerAtoms(structure, model, t, k);
-    const emit = (parentAtom: number, names: string[], type: GroupType, refIdx: number[]) => {
+    const emit = (parentAtom: number, hNames: number[], type: GroupType, refIdx: number[]) => {
       // An H whose parent and references are all shared atoms is added once (first conformer);
       // otherwise it belongs to this conformer's altloc.
       let shared = atoms.altloc[parentAtom] === 0;
       for (const q of refIdx) if (atoms.altloc[q] !== 0) shared = false;
       if (shared && !firstConformer) return;
       const hAlt = shared ? 0 : confAlt;
-      const len = lengthFor(convention, elementCode(S[atoms.element[parentAtom]]), type);
+      const len = lengthFor(convention, elOfStr[atoms.element[parentAtom]] as El, type);
       const ps = groupPositions(type, pos(parentAtom), refIdx.map(pos), len);
-      for (let h = 0; h < ps.length; h++)
-        pending.push({
-          x: ps[h][0],
-          y: ps[h][1],
-          z: ps[h][2],
-          residue: r,
-          altloc: hAlt,
-          name: names[h],
-          parent: parentAtom,
-          rotatable: isRotatableGroup(type),
-        });
+      const rot = isRotatableGroup(type);
+      for (let h = 0; h < ps.length; h++) out.push(ps[h], r, hAlt, hNames[h], parentAtom, rot);
     };
     const n = t.n[k];
     const ca = t.ca[k];
@@ -361,85 +444,72 @@ export function addRidingHydrogens(
     // Backbone amide H (not Pro): in the peptide plane, bisecting C(i−1)–N–CA outward.
     if (n >= 0 && ca >= 0 && res !== 'PRO') {
       const p = t.prev[k];
-      if (p >= 0 && t.c[p] >= 0) emit(n, ['H'], 'tri1', [ca, t.c[p]]);
-      else if (t.prev[k] < 0 && t.breakBefore[k] === 0 && c >= 0)
-        emit(n, ['H1', 'H2', 'H3'], 'methyl', [ca, c]);
+      if (p >= 0 && t.c[p] >= 0) emit(n, [nH], 'tri1', [ca, t.c[p]]);
+      else if (t.prev[k] < 0 && t.breakBefore[k] === 0 && c >= 0) emit(n, nH123, 'methyl', [ca, c]);
     }
     if (ca >= 0 && n >= 0 && c >= 0) {
-      if (res === 'GLY') emit(ca, ['HA2', 'HA3'], 'tet2', [n, c]);
-      else if (t.cb[k] >= 0) emit(ca, ['HA'], 'tet1', [n, c, t.cb[k]]);
+      if (res === 'GLY') emit(ca, nHA23, 'tet2', [n, c]);
+      else if (t.cb[k] >= 0) emit(ca, [nHA], 'tet1', [n, c, t.cb[k]]);
     }
-    const specs = SIDE_CHAIN[res];
-    if (!specs) continue;
-    for (const [par, names, type, refs] of specs) {
-      const pa = map.get(par);
-      if (pa === undefined) continue;
+    const specs = specsFor(res);
+    if (specs.length === 0) continue;
+    // this conformer's atoms by name (its altloc preferred over shared atoms)
+    for (let i = atomStart[r]; i < atomEnd[r]; i++) {
+      const a = atoms.altloc[i];
+      if (confAlt === 0 || a === 0 || a === confAlt) {
+        const nm = atoms.name[i];
+        const cur = slot[nm];
+        if (cur < 0 || (a === confAlt && confAlt !== 0 && atoms.altloc[cur] === 0)) slot[nm] = i;
+      }
+    }
+    for (const [par, hNames, type, refs] of specs) {
+      const pa = slot[par];
+      if (pa < 0) continue;
       const ri: number[] = [];
       for (const rn of refs) {
-        const q = map.get(rn);
-        if (q === undefined) break;
+        const q = slot[rn];
+        if (q < 0) break;
         ri.push(q);
       }
-      if (ri.length === refs.length) emit(pa, names, type, ri);
+      if (ri.length === refs.length) emit(pa, hNames, type, ri);
     }
+    for (let i = atomStart[r]; i < atomEnd[r]; i++) slot[atoms.name[i]] = -1;
   }
 
-  const m = atoms.count;
-  const total = m + pending.length;
-  const out: AllAtomModel = {
+  const added = out.n;
+  const total = m + added;
+  const element = new Uint8Array(total);
+  for (let i = 0; i < m; i++) element[i] = elOfStr[atoms.element[i]];
+  element.fill(El.H, m);
+  const cat = <T extends Float64Array | Int32Array | Uint8Array>(
+    a: ArrayLike<number>,
+    b: T,
+    make: new (n: number) => T,
+  ): T => {
+    const o = new make(total);
+    o.set(a as unknown as T);
+    o.set(b.subarray(0, added) as T, m);
+    return o;
+  };
+  const parent = new Int32Array(total).fill(-1);
+  parent.set(out.parent.subarray(0, added), m);
+  const rotatable = new Uint8Array(total);
+  rotatable.set(out.rotatable.subarray(0, added), m);
+  return {
     count: total,
     modelAtoms: m,
-    x: new Float64Array(total),
-    y: new Float64Array(total),
-    z: new Float64Array(total),
-    element: new Uint8Array(total),
-    residue: new Int32Array(total),
-    altloc: new Int32Array(total),
-    name: new Int32Array(total),
-    names: [],
-    parent: new Int32Array(total).fill(-1),
-    rotatable: new Uint8Array(total),
-    addedHydrogens: pending.length,
+    x: cat(atoms.x, out.x, Float64Array),
+    y: cat(atoms.y, out.y, Float64Array),
+    z: cat(atoms.z, out.z, Float64Array),
+    element,
+    residue: cat(atoms.residue, out.residue, Int32Array),
+    altloc: cat(atoms.altloc, out.altloc, Int32Array),
+    name: cat(atoms.name, out.name, Int32Array),
+    names,
+    parent,
+    rotatable,
+    addedHydrogens: added,
     depositedHydrogens: deposited,
     convention,
   };
-  const nameIndex = new Map<string, number>();
-  const intern = (s: string): number => {
-    let i = nameIndex.get(s);
-    if (i === undefined) {
-      i = out.names.length;
-      out.names.push(s);
-      nameIndex.set(s, i);
-    }
-    return i;
-  };
-  const elCache = new Map<number, El>();
-  for (let i = 0; i < m; i++) {
-    out.x[i] = atoms.x[i];
-    out.y[i] = atoms.y[i];
-    out.z[i] = atoms.z[i];
-    let e = elCache.get(atoms.element[i]);
-    if (e === undefined) {
-      e = elementCode(S[atoms.element[i]]);
-      elCache.set(atoms.element[i], e);
-    }
-    out.element[i] = e;
-    out.residue[i] = atoms.residue[i];
-    out.altloc[i] = atoms.altloc[i];
-    out.name[i] = intern(S[atoms.name[i]]);
-  }
-  for (let h = 0; h < pending.length; h++) {
-    const p = pending[h];
-    const i = m + h;
-    out.x[i] = p.x;
-    out.y[i] = p.y;
-    out.z[i] = p.z;
-    out.element[i] = El.H;
-    out.residue[i] = p.residue;
-    out.altloc[i] = p.altloc;
-    out.name[i] = intern(p.name);
-    out.parent[i] = p.parent;
-    out.rotatable[i] = p.rotatable ? 1 : 0;
-  }
-  return out;
 }

@@ -148,17 +148,20 @@ export function analyzeOverlaps(
   const candA = new IntList();
   const candB = new IntList();
   const maxContact = 2 * 1.9 - severeA;
-  forEachPairWithin(grid, maxContact, (i, j, d2) => {
+  // 8 × 8 tables by element code: squared bond limit and squared severe-contact distance.
+  const bondLim2 = new Float64Array(64);
+  const contact2 = new Float64Array(64);
+  for (let a = 1; a < 8; a++)
+    for (let b = 1; b < 8; b++) {
+      const lim = (COVALENT_RADII_A[a] ?? 0) + (COVALENT_RADII_A[b] ?? 0) + BOND_TOLERANCE_A;
+      bondLim2[a * 8 + b] = a === El.H && b === El.H ? 0 : lim * lim;
+      const c = (BONDI_RADII_A[a] ?? 0) + (BONDI_RADII_A[b] ?? 0) - severeA;
+      contact2[a * 8 + b] = c > 0 ? c * c : 0;
+    }
+  const visit = (i: number, j: number, d2: number): void => {
     if (alt[i] !== 0 && alt[j] !== 0 && alt[i] !== alt[j]) return;
-    const ei = el[i];
-    const ej = el[j];
-    const lim = COVALENT_RADII_A[ei] + COVALENT_RADII_A[ej] + BOND_TOLERANCE_A;
-    if (
-      d2 < lim * lim &&
-      fromModel[i] === 1 &&
-      fromModel[j] === 1 &&
-      !(ei === El.H && ej === El.H)
-    ) {
+    const pe = el[i] * 8 + el[j];
+    if (d2 < bondLim2[pe] && fromModel[i] === 1 && fromModel[j] === 1) {
       // added H bond only to their parent (below)
       let bonded = true;
       const ri = res[i];
@@ -169,6 +172,8 @@ export function analyzeOverlaps(
         // clash, not a bond).
         const ki = kind[ri];
         const kj = kind[rj];
+        const ei = el[i];
+        const ej = el[j];
         if (ki === ResidueKind.Water || kj === ResidueKind.Water) bonded = false;
         else if (ki === ResidueKind.Protein && kj === ResidueKind.Protein) {
           const peptide = (ei === El.C && ej === El.N) || (ei === El.N && ej === El.C);
@@ -182,12 +187,12 @@ export function analyzeOverlaps(
         return;
       }
     }
-    const r = BONDI_RADII_A[ei] + BONDI_RADII_A[ej] - severeA;
-    if (d2 <= r * r) {
+    if (d2 <= contact2[pe]) {
       candA.push(i);
       candB.push(j);
     }
-  });
+  };
+  forEachPairWithin(grid, maxContact, visit);
   for (let h = all.modelAtoms; h < n; h++) {
     const a = local[h];
     const b = local[all.parent[h]];
