@@ -35,6 +35,11 @@ export function hasAccessToken(): boolean {
   return accessToken !== null;
 }
 
+/** The bearer header for requests made outside `api()` (uploads through XMLHttpRequest). */
+export function authorizationHeader(): string | null {
+  return accessToken ? `Bearer ${accessToken}` : null;
+}
+
 /** Nest answers `message` as a sentence, or as a list of sentences for validation failures. */
 async function errorFrom(res: Response): Promise<ApiError> {
   let message = `The server answered ${res.status} ${res.statusText}. Try again in a moment.`;
