@@ -29,7 +29,7 @@ describe('covalent geometry against Engh & Huber 2001', () => {
       for (const key of Object.keys(ideal)) {
         const ours = res.meanBondA[key];
         expect(ours.count).toBeGreaterThan(4);
-        // Engh & Huber 2001 (Int. Tables F, Table 18.3.2.1); the 0.01 Å bar is issue 3's.
+        // Engh & Huber 2001 (Int. Tables F ch. 18.3, backbone-fragment table); the 0.01 Å bar is issue 3's.
         expect(Math.abs(ours.mean - ideal[key])).toBeLessThan(0.01);
         // gemmi averages over standard residues only; ours includes modified ones: 0.005 Å.
         expect(Math.abs(ours.mean - ref.bonds[key])).toBeLessThan(0.005);
