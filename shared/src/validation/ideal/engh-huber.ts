@@ -2,8 +2,9 @@
  * Ideal backbone and Cβ geometry of amino-acid residues: Engh & Huber 2001, International
  * Tables for Crystallography Vol. F (2006), ch. 18.3, section 18.3.2.3, the table "Bond
  * lengths (Å) and angles (°) of peptide backbone fragments" ("the backbone table" below),
- * columns Peptide / Proline / Glycine; the CA–CB rows use the table's substitution classes (CH3 = Ala, CH = Ile/Thr/Val, CH2 = the others). Values were
- * read from the table text; sigmas are the table's (on the last digit there).
+ * columns Peptide / Proline / Glycine; the CA–CB rows use the table's substitution classes
+ * (CH3 = Ala, CH = Ile/Thr/Val, CH2 = the others). Values were read from the table text;
+ * sigmas are the table's (on the last digit there).
  *
  * Coverage: backbone bonds and angles, the peptide bond C(i)–N(i+1) and the angles across it,
  * CA–CB and the two angles at CA involving CB. Side chains beyond CB are not checked yet.
