@@ -8,6 +8,8 @@ import * as fs from 'fs';
 import * as path from 'path';
 import { buildReport, ENGINE_VERSION, REPORT_SCHEMA, StructureReadError } from '../src';
 import { runReportCommand } from '../src/cli/report';
+import { nodeGunzip } from '../src/cli/node-gunzip';
+import { nodeSha256 } from '../src/cli/node-sha256';
 import { FIXTURES, referenceFor, STRUCTURE_FIXTURES } from './reference/reference';
 import type { RefEntry } from './reference/reference';
 
@@ -37,6 +39,12 @@ describe('buildReport', () => {
       gzip: true,
       sizeBytes: bytes.length,
     });
+  });
+
+  it('the Node edge (zlib gunzip, crypto hash) gives the identical report', async () => {
+    const bytes = bytesOf('1pfe.cif.gz');
+    const edge = await buildReport(bytes, { gunzip: nodeGunzip, sha256: nodeSha256 });
+    expect(JSON.stringify(edge)).toBe(JSON.stringify(await buildReport(bytes)));
   });
 
   it('is byte-identical for the same input', async () => {

@@ -5,13 +5,19 @@
 import { readFileSync } from 'node:fs';
 import { buildReport } from '../report/build';
 import { nodeGunzip } from './node-gunzip';
+import { nodeSha256 } from './node-sha256';
 
 async function main(): Promise<void> {
   const file = process.argv[2];
   const t0 = performance.now();
   const timings: Record<string, number> = {};
   const bytes = readFileSync(file);
-  const report = await buildReport(bytes, { filename: file, gunzip: nodeGunzip, timings });
+  const report = await buildReport(bytes, {
+    filename: file,
+    gunzip: nodeGunzip,
+    sha256: nodeSha256,
+    timings,
+  });
   const json = JSON.stringify(report);
   const seconds = (performance.now() - t0) / 1000;
   let rows = 0;

@@ -6,6 +6,7 @@ import { readFileSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { buildReport } from '../report/build';
 import { nodeGunzip } from './node-gunzip';
+import { nodeSha256 } from './node-sha256';
 import { StructureReadError } from '../io/errors';
 import type { ModelReport, Report } from '../report/types';
 
@@ -158,6 +159,7 @@ export async function runReportCommand(args: string[], io: CommandIo): Promise<n
       filename: basename(parsed.file),
       model: parsed.model,
       gunzip: nodeGunzip,
+      sha256: nodeSha256,
     });
     io.out(
       parsed.json ? JSON.stringify(report) + '\n' : formatSummary(report, basename(parsed.file)),

@@ -38,6 +38,8 @@ export interface ReportOptions extends ReadOptions {
   model?: number;
   /** when given, collects milliseconds per step (benchmarks; the report is unchanged) */
   timings?: Record<string, number>;
+  /** platform SHA-256 (hex) to use instead of the pure-JS one, e.g. Node's crypto at the edge */
+  sha256?: (bytes: Uint8Array) => string;
 }
 
 /** Everything one model's analyses share. */
@@ -97,6 +99,14 @@ export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [
 
 /** Report-wide analyses (after every model), in order. */
 export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [ensembleStep, referenceStep];
+
+function timed<T>(timings: Record<string, number> | undefined, key: string, f: () => T): T {
+  if (timings === undefined) return f();
+  const t = performance.now();
+  const v = f();
+  timings[key] = (timings[key] ?? 0) + performance.now() - t;
+  return v;
+}
 
 /** Angle for JSON: degrees rounded to 0.001°, null where undefined. */
 function angle(v: number): number | null {
@@ -285,7 +295,7 @@ export function analyseModel(
 export function buildReportFromStructure(
   structure: Structure,
   bytes: Uint8Array,
-  options: Pick<ReportOptions, 'model' | 'timings'> = {},
+  options: Pick<ReportOptions, 'model' | 'timings' | 'sha256'> = {},
 ): Report {
   let models = structure.models;
   if (options.model !== undefined) {
@@ -304,7 +314,7 @@ export function buildReportFromStructure(
     engine: { version: ENGINE_VERSION },
     reference: null,
     input: {
-      sha256: sha256Hex(bytes),
+      sha256: timed(options.timings, 'sha256', () => (options.sha256 ?? sha256Hex)(bytes)),
       format: structure.format,
       gzip: structure.gzip,
       sizeBytes: bytes.length,
@@ -327,6 +337,8 @@ export function buildReportFromStructure(
 
 /** Input bytes (any supported format, optionally gzip) → `foldfolio.report/1`. */
 export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}): Promise<Report> {
+  const t0 = options.timings !== undefined ? performance.now() : 0;
   const structure = await readStructure(bytes, options.filename ?? '', options);
+  if (options.timings !== undefined) options.timings['read'] = performance.now() - t0;
   return buildReportFromStructure(structure, bytes, options);
 }
