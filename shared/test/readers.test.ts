@@ -180,10 +180,29 @@ describe('bad input gets a clear error, never a partial structure', () => {
     const text = fs.readFileSync(path.join(FIXTURES, '1GBT.cif'), 'utf8');
     // cut in the middle of an _atom_site row
     const cut = text.indexOf('ATOM', Math.floor(text.length * 0.6)) + 30;
-    const e = await failure(new TextEncoder().encode(text.slice(0, cut)), '1GBT-cut.cif');
+    // (a final newline added, so the parser itself must notice the row is incomplete)
+    const e = await failure(new TextEncoder().encode(text.slice(0, cut) + '\n'), '1GBT-cut.cif');
     expect(e.line).toBeGreaterThan(100);
+    expect(e.message).toMatch(/could not be parsed/);
     expect(e.message).toMatch(/line \d+/);
     expect(e.message).toMatch(/upload/);
+  });
+
+  it('truncated mmCIF cut inside the last value of a row (would parse) names the last line', async () => {
+    const text = fs.readFileSync(path.join(FIXTURES, '1GBT.cif'), 'utf8');
+    // cut just before the newline ending an _atom_site row: every column is still there
+    const rowEnd = text.indexOf('\n', text.indexOf('ATOM', Math.floor(text.length * 0.5)));
+    const cut = text.slice(0, rowEnd - 1);
+    const e = await failure(new TextEncoder().encode(cut), '1GBT-cut.cif');
+    expect(e.line).toBe(cut.split('\n').length);
+    expect(e.message).toMatch(/cut short/);
+  });
+
+  it('truncated BinaryCIF', async () => {
+    const gz = fs.readFileSync(path.join(FIXTURES, '1gbt.bcif.gz'));
+    const raw = (await import('zlib')).gunzipSync(gz);
+    const e = await failure(raw.subarray(0, Math.floor(raw.length * 0.7)), '1gbt.bcif');
+    expect(e.message).toMatch(/BinaryCIF/);
   });
 
   it('pdb1gdr.ent: malformed charge column reported with its line', async () => {

@@ -142,6 +142,24 @@ export function sniffStructure(
   );
 }
 
+/**
+ * Text files written by programs end with a newline; one that stops mid-line was cut short
+ * (interrupted download or copy). A cut that falls inside the last value could still parse, so
+ * this is checked before parsing: never a silently partial model.
+ */
+function assertCompleteText(bytes: Uint8Array, format: InputFormat): void {
+  let end = bytes.length;
+  while (end > 0 && (bytes[end - 1] === 32 || bytes[end - 1] === 9)) end--;
+  if (end === 0 || bytes[end - 1] === 10 || bytes[end - 1] === 13) return;
+  let line = 1;
+  for (let i = 0; i < end; i++) if (bytes[i] === 10) line++;
+  const kind = format === 'pdb' ? 'PDB' : 'mmCIF';
+  throw new StructureReadError(
+    `The ${kind} file ends in the middle of line ${line}, so it was cut short (an interrupted download or copy); get the complete file and upload it again.`,
+    { line, item: 'end of file' },
+  );
+}
+
 /** Read any supported coordinate file into the typed-array hierarchy. */
 export async function readStructure(
   input: Uint8Array,
@@ -149,6 +167,7 @@ export async function readStructure(
   options: ReadOptions = {},
 ): Promise<Structure> {
   const { format, gzip, bytes } = sniffStructure(input, filenameHint, options);
+  if (format !== 'bcif') assertCompleteText(bytes, format);
   if (format === 'pdb') return readPdb(bytes, gzip);
   if (format === 'bcif') return blockToStructure(await parseBinaryCif(bytes), 'bcif', gzip);
   let text: string;
