@@ -82,6 +82,8 @@ export async function startService(): Promise<RunningService> {
       FOLDFOLIO_SIGNIN_LIMIT: '50',
       // a cheaper hash keeps registration fast; the service still enforces its floor of 10
       FOLDFOLIO_BCRYPT_COST: '10',
+      // access tokens expire within the test, so every page also exercises the silent refresh
+      FOLDFOLIO_ACCESS_TTL_SEC: process.env.FOLDFOLIO_E2E_ACCESS_TTL_SEC ?? '5',
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -135,4 +137,38 @@ export function launchBrowser(): Promise<Browser> {
       '--disable-sync',
     ],
   });
+}
+
+export interface Person {
+  name: string;
+  email: string;
+  password: string;
+}
+
+/** Registers an account through the API (for people whose sign-up is not what a test is about). */
+export async function registerViaApi(url: string, who: Person): Promise<string> {
+  const res = await fetch(`${url}/api/auth/register`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email: who.email, password: who.password, displayName: who.name }),
+  });
+  if (res.status !== 201)
+    throw new Error(`register ${who.email}: ${res.status} ${await res.text()}`);
+  const body = (await res.json()) as { accessToken: string };
+  return body.accessToken;
+}
+
+export async function apiPost<T>(
+  url: string,
+  token: string,
+  path: string,
+  body: unknown,
+): Promise<T> {
+  const res = await fetch(`${url}${path}`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json', Authorization: `Bearer ${token}` },
+    body: JSON.stringify(body),
+  });
+  if (!res.ok) throw new Error(`POST ${path}: ${res.status} ${await res.text()}`);
+  return (await res.json()) as T;
 }

@@ -1,26 +1,52 @@
-// Browser test of the foundation: register → create a manuscript → invite a coauthor → the
-// coauthor opens the link from the Outbox in a second browser, registers, accepts → both see
-// the membership. Real service, real MariaDB, real SMTP sink, Debian's Chromium.
+// Browser tests of the foundation against the real service, real MariaDB, its SMTP sink and
+// Debian's Chromium: register → create a manuscript → invite → the coauthor opens the mailed link
+// in a second browser, registers, accepts → both see the membership; then role change, revoke,
+// leave; the Desk's sorting and archive; password reset through the mailed link.
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, SCREENSHOTS, startService, type RunningService } from './harness';
+import {
+  apiPost,
+  launchBrowser,
+  registerViaApi,
+  SCREENSHOTS,
+  startService,
+  type Person,
+  type RunningService,
+} from './harness';
 
 // invented people and lab (demo data rule: no real names)
-const OWNER = {
+const ADMIN: Person = {
+  name: 'Maren Oakes',
+  email: 'maren.oakes@saltmarsh-lab.example',
+  password: 'siteAdmin-2026!',
+};
+const OWNER: Person = {
   name: 'Ilse Marrow',
   email: 'ilse.marrow@saltmarsh-lab.example',
   password: 'lidProtease-2026',
 };
-const COAUTHOR = {
+const COAUTHOR: Person = {
   name: 'Teodor Quill',
   email: 'teo.quill@saltmarsh-lab.example',
   password: 'helixTurn-0815',
 };
+const SORTER: Person = {
+  name: 'Runa Vell',
+  email: 'runa.vell@saltmarsh-lab.example',
+  password: 'betaSheet-4242',
+};
+const FORGETFUL: Person = {
+  name: 'Oskar Brine',
+  email: 'oskar.brine@saltmarsh-lab.example',
+  password: 'firstPass-1111',
+};
 // markup in a title must come back as literal text, never as HTML
 const TITLE = 'Crystal structure of the <b>Saltmarsh</b> lid protease & its inhibitor';
+const VIEWPORT = { width: 1280, height: 860 };
 
 let service: RunningService;
 let browser: Browser;
+let adminPage: Page | null = null;
 const pageErrors: string[] = [];
 
 async function newPage(ctx: BrowserContext): Promise<Page> {
@@ -30,10 +56,6 @@ async function newPage(ctx: BrowserContext): Promise<Page> {
 }
 
 async function shot(page: Page, name: string): Promise<void> {
-  // let dialog and toast transitions finish so the picture shows the settled screen
-  await page.waitForFunction(
-    () => !document.querySelector('[class*="-enter-active"], [class*="-exit-active"]'),
-  );
   await page.screenshot({
     path: join(SCREENSHOTS, `${name}.png`),
     fullPage: true,
@@ -41,7 +63,7 @@ async function shot(page: Page, name: string): Promise<void> {
   });
 }
 
-async function register(page: Page, who: typeof OWNER): Promise<void> {
+async function fillRegister(page: Page, who: Person): Promise<void> {
   await page.getByLabel('Your name').fill(who.name);
   const email = page.getByLabel('E-mail address');
   if ((await email.inputValue()) !== who.email) await email.fill(who.email);
@@ -49,8 +71,44 @@ async function register(page: Page, who: typeof OWNER): Promise<void> {
   await page.getByRole('button', { name: 'Create account' }).click();
 }
 
+async function signIn(page: Page, who: Person, password = who.password): Promise<void> {
+  await page.getByLabel('E-mail address').fill(who.email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/**
+ * The newest mail to `to` whose subject matches, opened in the admin's Outbox page; returns the
+ * in-app href of its first link (what a person would click).
+ */
+async function linkFromOutbox(to: string, subject: RegExp, screenshot?: string): Promise<string> {
+  if (!adminPage) {
+    const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+    adminPage = await newPage(ctx);
+    await adminPage.goto('/sign-in?next=%2Fadmin%2Foutbox');
+    await signIn(adminPage, ADMIN);
+    await adminPage.waitForURL(/\/admin\/outbox$/);
+  } else {
+    await adminPage.goto('/admin/outbox');
+  }
+  const item = adminPage
+    .getByTestId('outbox-list')
+    .locator('a', { hasText: to })
+    .filter({ hasText: subject })
+    .first();
+  await item.click();
+  const message = adminPage.getByTestId('outbox-message');
+  await message.getByText(to).first().waitFor();
+  const href = await message.locator('.ff-message-links a').first().getAttribute('href');
+  if (screenshot) await shot(adminPage, screenshot);
+  if (!href) throw new Error(`The mail to ${to} shows no link.`);
+  return href;
+}
+
 beforeAll(async () => {
   service = await startService();
+  // the first account of a fresh install becomes its admin (the one who reads the Outbox)
+  await registerViaApi(service.url, ADMIN);
   browser = await launchBrowser();
 }, 90_000);
 
@@ -59,11 +117,13 @@ afterAll(async () => {
   await service?.stop();
 });
 
-test('register, create a manuscript, invite, accept in a second browser, membership visible', async () => {
-  const ownerCtx = await browser.newContext({
-    baseURL: service.url,
-    viewport: { width: 1280, height: 860 },
-  });
+afterEach(() => {
+  // an uncaught exception in any page fails the test that caused it
+  expect(pageErrors.splice(0)).toEqual([]);
+});
+
+test('register, create, invite, accept in a second browser; then change role, revoke, leave', async () => {
+  const ownerCtx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const owner = await newPage(ownerCtx);
 
   // a signed-out visitor is sent to sign-in, remembering where they wanted to go
@@ -73,12 +133,13 @@ test('register, create a manuscript, invite, accept in a second browser, members
 
   await owner.getByRole('link', { name: 'Create an account' }).click();
   await owner.waitForURL(/\/register/);
-  await register(owner, OWNER);
+  await fillRegister(owner, OWNER);
   await owner.waitForURL(/\/desk$/);
   await owner.getByText('Your Desk is empty').waitFor();
+  // not an admin: no Admin entry, and the page itself says so
+  expect(await owner.locator('.ff-navbar').getByRole('link', { name: 'Admin' }).count()).toBe(0);
   await shot(owner, '02-desk-empty');
 
-  // create a manuscript through the dialog
   await owner.getByRole('button', { name: 'New manuscript' }).first().click();
   await owner.getByLabel('Working title').fill(TITLE);
   await shot(owner, '03-create-dialog');
@@ -87,11 +148,10 @@ test('register, create a manuscript, invite, accept in a second browser, members
   const manuscriptPath = new URL(owner.url()).pathname.replace(/\/models$/, '');
   await owner.getByRole('heading', { level: 1 }).getByText(TITLE, { exact: true }).waitFor();
   expect(await owner.locator('h1 b').count()).toBe(0);
-  await owner.getByText('arrives with a later release').waitFor();
+  await owner.getByRole('button', { name: 'Upload as new version' }).waitFor();
   await owner.getByText('Validation supports expert judgement').waitFor();
   await shot(owner, '04-workspace-models');
 
-  // Members: the owner alone, then an invitation
   await owner.getByRole('tab', { name: 'Members' }).click();
   await owner.waitForURL(new RegExp(`${manuscriptPath}/members$`));
   const members = owner.getByTestId('members-table');
@@ -110,44 +170,29 @@ test('register, create a manuscript, invite, accept in a second browser, members
   expect(await pending.locator('tbody tr').first().textContent()).toContain('Editor');
   await shot(owner, '06-members-invited');
 
-  // the Desk lists it with the owner's role and one member
   await owner.locator('.ff-navbar').getByRole('link', { name: 'Desk', exact: true }).click();
   const desk = owner.getByTestId('desk-table');
   await desk.getByText(TITLE, { exact: true }).waitFor();
-  const deskText = (await desk.textContent()) ?? '';
-  expect(deskText).toContain('Owner');
+  expect((await desk.textContent()) ?? '').toContain('Owner');
   await shot(owner, '07-desk');
 
-  // the first account of a fresh install is its admin: read the invitation in the Outbox
-  await owner.locator('.ff-navbar').getByRole('link', { name: 'Admin' }).click();
-  await owner.getByTestId('users-table').getByText(OWNER.email).waitFor();
-  await owner.getByRole('tab', { name: 'Outbox' }).click();
-  const mail = owner.getByTestId('outbox-list').locator('a', { hasText: COAUTHOR.email });
-  await mail.first().click();
-  const message = owner.getByTestId('outbox-message');
-  await message.getByText(COAUTHOR.email).first().waitFor();
-  const inviteLink = message.locator('a[href*="/invitations/"]').first();
-  const href = await inviteLink.getAttribute('href');
+  const href = await linkFromOutbox(COAUTHOR.email, /invites you/, '08-outbox-message');
   expect(href).toMatch(/^\/invitations\/[^/]+$/);
-  await shot(owner, '08-outbox-message');
 
   // second browser: the coauthor opens the link signed out, registers, and comes back to accept
-  const coCtx = await browser.newContext({
-    baseURL: service.url,
-    viewport: { width: 1280, height: 860 },
-  });
+  const coCtx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const co = await newPage(coCtx);
-  await co.goto(href as string);
+  await co.goto(href);
   await co.getByText(TITLE, { exact: true }).waitFor();
-  expect((await co.locator('.ff-invitation').textContent()) ?? '').toContain('Editor');
-  expect((await co.locator('.ff-invitation').textContent()) ?? '').toContain(OWNER.name);
+  const preview = (await co.locator('.ff-invitation').textContent()) ?? '';
+  expect(preview).toContain('Editor');
+  expect(preview).toContain(OWNER.name);
   await shot(co, '09-invitation-signed-out');
 
   await co.getByRole('button', { name: 'Create an account' }).click();
   await co.waitForURL(/\/register\?next=/);
-  // the invited address is filled in for them
   expect(await co.getByLabel('E-mail address').inputValue()).toBe(COAUTHOR.email);
-  await register(co, COAUTHOR);
+  await fillRegister(co, COAUTHOR);
   await co.waitForURL(/\/invitations\/[^/]+$/);
   await co.getByRole('button', { name: 'Accept invitation' }).waitFor();
   await shot(co, '10-invitation-signed-in');
@@ -157,31 +202,166 @@ test('register, create a manuscript, invite, accept in a second browser, members
   await coMembers.getByText(OWNER.email).waitFor();
   await coMembers.getByText(COAUTHOR.email).waitFor();
   expect(await coMembers.locator('tbody tr').count()).toBe(2);
-  // an editor sees no invite button and no pending invitations
+  // an editor can neither invite nor see pending invitations
   expect(await co.getByRole('button', { name: 'Invite' }).count()).toBe(0);
+  expect(await co.getByText('Pending invitations').count()).toBe(0);
   await shot(co, '11-members-as-coauthor');
 
-  // the coauthor's Desk shows the manuscript with their role
+  // a used invitation cannot be used again
+  await co.goto(href);
+  await co.getByText('This invitation cannot be used').waitFor();
+  expect(((await co.locator('.ff-problem').textContent()) ?? '').length).toBeGreaterThan(20);
+
   await co.goto('/desk');
   const coDesk = co.getByTestId('desk-table');
   await coDesk.getByText(TITLE, { exact: true }).waitFor();
   expect((await coDesk.textContent()) ?? '').toContain('Editor');
 
-  // the owner sees the new member, and the invitation is no longer pending
+  // the owner sees the new member; the invitation is no longer pending
   await owner.goto(`${manuscriptPath}/members`);
   const ownerMembers = owner.getByTestId('members-table');
-  await ownerMembers.getByText(COAUTHOR.email).waitFor();
   const row = ownerMembers.locator('tbody tr', { hasText: COAUTHOR.email });
+  await row.waitFor();
   expect(await row.getByRole('combobox').inputValue()).toBe('editor');
   await owner.getByText('No invitation is waiting for an answer.').waitFor();
   await shot(owner, '12-members-as-owner');
 
-  // a reload keeps the session (silent refresh from the httpOnly cookie)
+  // let the access token expire (5 s in this service): the next actions refresh silently
+  await owner.waitForTimeout(6000);
+  await row.getByRole('combobox').selectOption('commenter');
+  await owner.getByText(`${COAUTHOR.name} is now Commenter.`).waitFor();
   await owner.reload();
-  await owner.getByTestId('members-table').getByText(COAUTHOR.email).waitFor();
   expect(new URL(owner.url()).pathname).toBe(`${manuscriptPath}/members`);
+  await co.goto(`${manuscriptPath}/members`);
+  await co.locator('.ff-role-tag', { hasText: 'Commenter' }).waitFor();
 
-  expect(pageErrors).toEqual([]);
+  // an invitation sent by mistake is revoked
+  await owner.getByRole('button', { name: 'Invite' }).click();
+  await owner
+    .getByRole('dialog')
+    .getByLabel('E-mail address')
+    .fill('wrong.address@saltmarsh-lab.example');
+  await owner.getByRole('dialog').getByRole('button', { name: 'Send invitation' }).click();
+  const wrongRow = owner
+    .getByTestId('invitations-table')
+    .locator('tbody tr', { hasText: 'wrong.address' });
+  await wrongRow.waitFor();
+  await wrongRow.getByRole('button', { name: 'Revoke' }).click();
+  await owner.getByText('No invitation is waiting for an answer.').waitFor();
+
+  // the last owner cannot leave; the coauthor can
+  expect(
+    await ownerMembers
+      .locator('tbody tr', { hasText: OWNER.email })
+      .getByRole('button', { name: 'Leave' })
+      .isDisabled(),
+  ).toBe(true);
+  await co
+    .getByTestId('members-table')
+    .locator('tbody tr', { hasText: COAUTHOR.email })
+    .getByRole('button', { name: 'Leave' })
+    .click();
+  await co.getByRole('alertdialog').getByRole('button', { name: 'Leave manuscript' }).click();
+  await co.waitForURL(/\/desk$/);
+  await co.getByText('Your Desk is empty').waitFor();
+  await owner.reload();
+  await ownerMembers.getByText(OWNER.email).waitFor();
+  expect(await ownerMembers.locator('tbody tr').count()).toBe(1);
+
   await coCtx.close();
   await ownerCtx.close();
 }, 120_000);
+
+test('Desk sorts by column, renames, archives and restores', async () => {
+  const token = await registerViaApi(service.url, SORTER);
+  // created oldest → newest; titles chosen so text order and numeric order differ
+  for (const title of ['Holo form 10', 'apo form at 2.1 Å', 'Holo form 9'])
+    await apiPost(service.url, token, '/api/manuscripts', { title });
+
+  const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+  const page = await newPage(ctx);
+  await page.goto('/sign-in');
+  await signIn(page, SORTER);
+  await page.waitForURL(/\/desk$/);
+  const desk = page.getByTestId('desk-table');
+  const titles = async () =>
+    (await desk.locator('.ff-title-link').allTextContents()).map((t) => t.trim());
+  await desk.getByText('Holo form 9').waitFor();
+  // default: last activity, newest first
+  expect(await titles()).toEqual(['Holo form 9', 'apo form at 2.1 Å', 'Holo form 10']);
+  // Table2 draws its header in several panes; the top pane is the one on screen
+  await page
+    .locator('.bp6-table-quadrant-top')
+    .getByRole('button', { name: 'Sort by Title' })
+    .click();
+  expect(await titles()).toEqual(['apo form at 2.1 Å', 'Holo form 9', 'Holo form 10']);
+  await page
+    .locator('.bp6-table-quadrant-top')
+    .getByRole('button', { name: 'Sort by Title' })
+    .click();
+  expect(await titles()).toEqual(['Holo form 10', 'Holo form 9', 'apo form at 2.1 Å']);
+  await shot(page, '13-desk-sorted');
+
+  // rename in the workspace header
+  await desk.getByText('apo form at 2.1 Å').click();
+  await page.waitForURL(/\/models$/);
+  await page.locator('h1 .bp6-editable-text').click();
+  await page.keyboard.press('ControlOrMeta+a');
+  await page.keyboard.type('Apo form at 1.9 Å');
+  await page.keyboard.press('Enter');
+  await page.getByText('Manuscript renamed.').waitFor();
+
+  // archive: hidden from the Desk until asked for
+  await page.getByRole('button', { name: 'Archive' }).click();
+  await page.getByText('This manuscript is archived').waitFor();
+  await page.locator('.ff-navbar').getByRole('link', { name: 'Desk', exact: true }).click();
+  await desk.getByText('Holo form 9').waitFor();
+  expect(await titles()).not.toContain('Apo form at 1.9 Å');
+  await page.getByText('Show archived (1)').click();
+  await desk.getByText('Apo form at 1.9 Å').waitFor();
+  await shot(page, '14-desk-archived-shown');
+
+  await desk.getByText('Apo form at 1.9 Å').click();
+  await page.getByRole('button', { name: 'Return to Desk' }).click();
+  await page.getByText('The manuscript is active again.').waitFor();
+  await ctx.close();
+}, 90_000);
+
+test('password reset through the mailed link', async () => {
+  await registerViaApi(service.url, FORGETFUL);
+  const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+  const page = await newPage(ctx);
+  await page.goto('/sign-in');
+  await page.getByRole('link', { name: 'Forgot your password?' }).click();
+  await page.getByLabel('E-mail address').fill(FORGETFUL.email);
+  await page.getByRole('button', { name: 'Send reset link' }).click();
+  await page.getByText('a message with a link to set a new password is on its way').waitFor();
+
+  const href = await linkFromOutbox(FORGETFUL.email, /password/i);
+  expect(href).toMatch(/^\/reset-password\/[^/]+$/);
+  await page.goto(href);
+  const newPassword = 'secondPass-2222';
+  await page.getByLabel('New password').fill(newPassword);
+  await page.getByLabel('Repeat it').fill(newPassword);
+  await shot(page, '15-set-new-password');
+  await page.getByRole('button', { name: 'Set new password' }).click();
+  await page.getByText('Your password has been changed.').waitFor();
+
+  // the old password no longer works and the page says so; the new one does
+  await page.getByRole('link', { name: 'Sign in', exact: true }).click();
+  await signIn(page, FORGETFUL);
+  await page.locator('.ff-problem').waitFor();
+  expect(page.url()).toContain('/sign-in');
+  await shot(page, '16-sign-in-refused');
+  await page.getByLabel('Password').fill(newPassword);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/desk$/);
+
+  // the link works once
+  await page.goto(href);
+  await page.getByLabel('New password').fill('thirdPass-3333');
+  await page.getByLabel('Repeat it').fill('thirdPass-3333');
+  await page.getByRole('button', { name: 'Set new password' }).click();
+  await page.locator('.ff-problem').waitFor();
+  await ctx.close();
+}, 90_000);

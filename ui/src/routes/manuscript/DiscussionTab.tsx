@@ -91,7 +91,9 @@ function NewThread({ manuscript }: { manuscript: ManuscriptDto }) {
       ) : (
         <p className="ff-muted">Say what the comment is about first.</p>
       )}
-      <p className="ff-muted">Comments on single residues start from the Quality tab’s residue table.</p>
+      <p className="ff-muted">
+        Comments on single residues start from the Quality tab’s residue table.
+      </p>
     </section>
   );
 }

@@ -1,0 +1,170 @@
+// Browser test of the manuscript workflow (issue 6) against the real service, its analysis
+// worker, MariaDB, Redis, the SMTP sink and Debian's Chromium: register → create a manuscript →
+// upload a real structure → watch the progress bar → the Quality tab shows the summary → open a
+// residue → comment with a mention → the mentioned member's e-mail arrives in the Outbox.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import {
+  apiPost,
+  launchBrowser,
+  registerViaApi,
+  ROOT,
+  SCREENSHOTS,
+  startService,
+  type Person,
+  type RunningService,
+} from './harness';
+
+// invented people and lab (demo data rule: no real names)
+const OWNER: Person = {
+  name: 'Wrenna Holt',
+  email: 'wrenna.holt@tidepool-lab.example',
+  password: 'foldingPath-2026',
+};
+const COAUTHOR: Person = {
+  name: 'Casimir Fenn',
+  email: 'casimir.fenn@tidepool-lab.example',
+  password: 'loopRegion-7788',
+};
+const VIEWPORT = { width: 1280, height: 900 };
+// a real PDB entry (2XHE, X-ray) copied into the repo as a test fixture
+const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '2XHE.cif');
+
+let service: RunningService;
+let browser: Browser;
+const pageErrors: string[] = [];
+
+async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({
+    path: join(SCREENSHOTS, `${name}.png`),
+    fullPage: true,
+    animations: 'disabled',
+  });
+}
+
+async function apiGet<T>(token: string, path: string): Promise<T> {
+  const res = await fetch(`${service.url}${path}`, {
+    headers: { Authorization: `Bearer ${token}` },
+  });
+  if (!res.ok) throw new Error(`GET ${path}: ${res.status} ${await res.text()}`);
+  return (await res.json()) as T;
+}
+
+beforeAll(async () => {
+  service = await startService();
+  browser = await launchBrowser();
+}, 90_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await service?.stop();
+});
+
+afterEach(() => {
+  expect(pageErrors.splice(0)).toEqual([]);
+});
+
+test('upload → progress → Quality summary → residue → comment with a mention → mail in the Outbox', async () => {
+  const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+  const page = await ctx.newPage();
+  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+
+  // register in the browser (the first account of a fresh install is its admin)
+  await page.goto('/register');
+  await page.getByLabel('Your name').fill(OWNER.name);
+  await page.getByLabel('E-mail address').fill(OWNER.email);
+  await page.getByLabel('Password').fill(OWNER.password);
+  await page.getByRole('button', { name: 'Create account' }).click();
+  await page.waitForURL(/\/desk$/);
+
+  await page.getByRole('button', { name: 'New manuscript' }).first().click();
+  await page.getByLabel('Working title').fill('Tidepool lectin bound to an invented glycan');
+  await page.getByRole('button', { name: 'Create manuscript' }).click();
+  await page.waitForURL(/\/manuscripts\/[^/]+\/models$/);
+  const manuscriptId = new URL(page.url()).pathname.split('/')[2];
+
+  // the coauthor joins as a commenter through the real invitation (link read from the sink)
+  const ownerToken = (
+    (await (
+      await fetch(`${service.url}/api/auth/sign-in`, {
+        method: 'POST',
+        headers: { 'Content-Type': 'application/json' },
+        body: JSON.stringify({ email: OWNER.email, password: OWNER.password }),
+      })
+    ).json()) as { accessToken: string }
+  ).accessToken;
+  const coToken = await registerViaApi(service.url, COAUTHOR);
+  await apiPost(service.url, ownerToken, `/api/manuscripts/${manuscriptId}/invitations`, {
+    email: COAUTHOR.email,
+    role: 'commenter',
+  });
+  const box = await apiGet<{ id: string; to: string; subject: string }[]>(
+    ownerToken,
+    '/api/admin/outbox',
+  );
+  const invite = box.find((m) => m.to === COAUTHOR.email);
+  if (!invite) throw new Error('the invitation mail did not arrive');
+  const mail = await apiGet<{ links: string[] }>(ownerToken, `/api/admin/outbox/${invite.id}`);
+  const token = mail.links.map((l) => l.match(/\/invitations\/([^/?#]+)/)?.[1]).find(Boolean);
+  await apiPost(service.url, coToken, `/api/invitations/${token}/accept`, {});
+
+  // upload through the Models tab: file input + note, then the progress bar, then "analysed"
+  await page.reload();
+  await page.getByLabel('Model file').setInputFiles({
+    name: '2XHE.cif',
+    mimeType: 'chemical/x-mmcif',
+    buffer: readFileSync(STRUCTURE),
+  });
+  await page
+    .getByLabel('Note for this version')
+    .fill('First refinement after molecular replacement.');
+  await shot(page, 'workflow-01-upload-ready');
+  await page.getByRole('button', { name: 'Upload as new version' }).click();
+  const card = page.getByTestId('version-1');
+  await card.waitFor();
+  await card.locator('.bp6-progress-bar, [data-testid="analysis-done"]').first().waitFor();
+  await shot(page, 'workflow-02-progress');
+  await card.getByTestId('analysis-done').waitFor({ timeout: 60_000 });
+  await shot(page, 'workflow-03-analysed');
+
+  // the Quality tab: the summary cards, the judgement note, the residue table
+  await page.getByRole('tab', { name: 'Quality' }).click();
+  await page.getByTestId('summary-cards').waitFor();
+  await page.getByText('Validation supports, and does not replace').waitFor();
+  const torsions = (await page.getByTestId('card-torsions').textContent()) ?? '';
+  expect(torsions).toMatch(/% favored/);
+  await page.getByTestId('residue-table').locator('.bp6-table-cell').first().waitFor();
+  await shot(page, 'workflow-04-quality');
+
+  // open the first residue (outliers first) and comment on it, mentioning the coauthor
+  await page
+    .getByTestId('residue-table')
+    .locator('.bp6-table-body .bp6-table-cell')
+    .first()
+    .click();
+  const panel = page.getByTestId('residue-panel');
+  await panel.waitFor();
+  const handle = COAUTHOR.email.split('@')[0];
+  await panel
+    .getByLabel('New comment')
+    .fill(`@${handle} is this **really** supported by the density?`);
+  await panel.getByRole('button', { name: 'Comment' }).click();
+  await panel.getByTestId('comment-thread').locator('strong', { hasText: 'really' }).waitFor();
+  await shot(page, 'workflow-05-residue-comment');
+
+  // the mention mail, as the admin sees it in the Outbox
+  await page.keyboard.press('Escape');
+  await page.goto('/admin/outbox');
+  const item = page
+    .getByTestId('outbox-list')
+    .locator('a', { hasText: COAUTHOR.email })
+    .filter({ hasText: /mentioned you/ });
+  await item.first().waitFor({ timeout: 15_000 });
+  await item.first().click();
+  await page
+    .getByTestId('outbox-message')
+    .getByText('is this **really** supported by the density?')
+    .waitFor();
+  await shot(page, 'workflow-06-mention-mail');
+});
