@@ -7,6 +7,12 @@
 import { runReportCommand, REPORT_USAGE } from '@foldfolio/shared/dist/cli/report.js';
 import { FIGURES_USAGE, runFiguresCommand } from '../figures/cli.js';
 import { runTablesCommand, TABLES_USAGE } from '../tables/cli.js';
+import {
+  PACKAGE_USAGE,
+  runPackageCommand,
+  runVerifyCommand,
+  VERIFY_USAGE,
+} from '../packages/cli.js';
 
 type Runner = (
   args: string[],
@@ -17,6 +23,8 @@ const COMMANDS: Record<string, { run: Runner; usage: string }> = {
   report: { run: runReportCommand, usage: REPORT_USAGE },
   figures: { run: runFiguresCommand, usage: FIGURES_USAGE },
   tables: { run: runTablesCommand, usage: TABLES_USAGE },
+  package: { run: runPackageCommand, usage: PACKAGE_USAGE },
+  verify: { run: runVerifyCommand, usage: VERIFY_USAGE },
 };
 
 function usage(): string {

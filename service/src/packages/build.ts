@@ -1,0 +1,602 @@
+/**
+ * Review package builder: model version(s) → report, figures (SVG + PDF + the data behind each),
+ * methods table (every format), per-residue CSV, README and manifest.json, zipped
+ * deterministically. The same inputs give the same zip bytes; `verify` rebuilds with this same
+ * function and compares file by file.
+ */
+import { createHash } from 'node:crypto';
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { buildReport, ENGINE_VERSION, type Report, type ResidueRow } from '@foldfolio/shared';
+import { nodeGunzip } from '@foldfolio/shared/dist/cli/node-gunzip.js';
+import { svgToPdf } from '../figures/export.js';
+import { renderFigure } from '../figures/render.js';
+import { listFigureTemplates, loadPreset, templatesRoot } from '../figures/templates.js';
+import { experimentFromBytes } from '../tables/cli.js';
+import {
+  defaultTableFor,
+  loadTableTemplate,
+  renderTableHtml,
+  toCsv,
+  toDocx,
+  toHtmlDocument,
+  toLatex,
+  toMarkdown,
+} from '../tables/render.js';
+import { readZip, writeZip, ZIP_SETTINGS } from './zip.js';
+
+export const PACKAGE_SCHEMA = 'foldfolio.package/1';
+/** Figures are frozen at one journal width; the single-column preset is the common case. */
+export const PACKAGE_PRESET = 'single';
+
+export interface PackageModelInput {
+  /** version number within the manuscript (1, 2, …) */
+  n: number;
+  /** the uploaded file's name (kept in the manifest unless anonymised) */
+  filename: string;
+  bytes: Buffer;
+}
+
+export interface PackageInput {
+  title: string;
+  /** chosen versions; sorted by n here */
+  models: PackageModelInput[];
+  includeModel: boolean;
+  anonymise: boolean;
+  /** names shown as "prepared by" (left out when anonymised) */
+  preparedBy?: string[];
+  /**
+   * Texts that must appear nowhere in an anonymised package (member names, e-mails, comment
+   * bodies); the build fails, naming the file, when one does.
+   */
+  forbiddenTexts?: string[];
+  onProgress?: (fraction: number, step: string) => void;
+}
+
+export type FileKind =
+  'readme' | 'model' | 'report' | 'residues' | 'figure' | 'figure-data' | 'table';
+
+export interface ManifestFile {
+  path: string;
+  kind: FileKind;
+  sha256: string;
+  sizeBytes: number;
+  /** input keys (see `inputs`) this file is computed from */
+  dependsOn: string[];
+  description: string;
+}
+
+export interface ManifestInput {
+  key: string;
+  kind: 'model' | 'figure-template' | 'table-template' | 'preset' | 'reference' | 'engine';
+  id: string;
+  version: string;
+  sha256: string;
+  /** model inputs: where the file is inside the package, when included */
+  path?: string;
+  /** model inputs: the uploaded name, left out when anonymised */
+  filename?: string;
+  sizeBytes?: number;
+}
+
+export interface Manifest {
+  schema: typeof PACKAGE_SCHEMA;
+  title: string;
+  anonymised: boolean;
+  includesModel: boolean;
+  preparedBy: string[];
+  preset: string;
+  /** Node's zlib and the zip settings: the zip bytes depend on them */
+  zip: typeof ZIP_SETTINGS & { zlib: string };
+  inputs: ManifestInput[];
+  files: ManifestFile[];
+}
+
+export interface BuiltPackage {
+  zip: Buffer;
+  manifest: Manifest;
+  /** every entry of the zip, manifest.json included */
+  files: Map<string, Buffer>;
+  reports: Report[];
+}
+
+export class PackageBuildError extends Error {
+  constructor(message: string) {
+    super(message);
+    this.name = 'PackageBuildError';
+  }
+}
+
+export const sha256 = (b: Buffer | string): string => createHash('sha256').update(b).digest('hex');
+
+/** sha256 over every file of a template folder, in name order: name NUL bytes NUL. */
+function folderSha(dir: string): string {
+  const h = createHash('sha256');
+  for (const f of readdirSync(dir).sort()) {
+    h.update(f)
+      .update('\0')
+      .update(readFileSync(join(dir, f)))
+      .update('\0');
+  }
+  return h.digest('hex');
+}
+
+/** Built-in template and preset fingerprints as recorded in (and checked from) a manifest. */
+export function templateInputs(): ManifestInput[] {
+  const root = templatesRoot();
+  const out: ManifestInput[] = [];
+  for (const t of listFigureTemplates()) {
+    out.push({
+      key: `figure-template:${t.manifest.id}`,
+      kind: 'figure-template',
+      id: t.manifest.id,
+      version: String(t.manifest.version),
+      sha256: folderSha(join(root, 'figures', t.manifest.id)),
+    });
+  }
+  for (const id of ['methods-em', 'methods-nmr', 'methods-xray']) {
+    const t = loadTableTemplate(id);
+    out.push({
+      key: `table-template:${id}`,
+      kind: 'table-template',
+      id,
+      version: String(t.manifest.version),
+      sha256: folderSha(join(root, 'tables', id)),
+    });
+  }
+  const preset = loadPreset(PACKAGE_PRESET);
+  out.push({
+    key: `preset:${preset.id}`,
+    kind: 'preset',
+    id: preset.id,
+    version: String(preset.version),
+    sha256: sha256(readFileSync(join(root, 'presets', `${preset.id}.json`))),
+  });
+  return out;
+}
+
+const EXT: Record<string, string> = { mmcif: 'cif', bcif: 'bcif', pdb: 'pdb' };
+
+/** Model path inside the package: never the uploaded name, which may identify the lab. */
+function modelPath(n: number, report: Report): string {
+  return `model/v${n}.${EXT[report.input.format] ?? 'dat'}${report.input.gzip ? '.gz' : ''}`;
+}
+
+function csvCell(v: unknown): string {
+  if (v === null || v === undefined) return '';
+  const s = Array.isArray(v) ? v.map((x) => (x === null ? '' : String(x))).join(';') : String(v);
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** Rows → CSV; nested objects become dotted columns, in first-appearance order. */
+export function rowsToCsv(rows: Record<string, unknown>[]): string {
+  const flat = rows.map((r) => {
+    const o: Record<string, unknown> = {};
+    const walk = (prefix: string, v: unknown) => {
+      if (v && typeof v === 'object' && !Array.isArray(v)) {
+        for (const [k, x] of Object.entries(v as Record<string, unknown>))
+          walk(prefix ? `${prefix}.${k}` : k, x);
+      } else o[prefix] = v;
+    };
+    walk('', r);
+    return o;
+  });
+  const cols: string[] = [];
+  const seen = new Set<string>();
+  for (const r of flat)
+    for (const k of Object.keys(r))
+      if (!seen.has(k)) {
+        seen.add(k);
+        cols.push(k);
+      }
+  const lines = [cols.map(csvCell).join(',')];
+  for (const r of flat) lines.push(cols.map((c) => csvCell(r[c])).join(','));
+  return lines.join('\n') + '\n';
+}
+
+const RESIDUE_COLUMNS: (keyof ResidueRow)[] = [
+  'chain',
+  'seq',
+  'icode',
+  'name',
+  'parent',
+  'altloc',
+  'phi',
+  'psi',
+  'omega',
+  'chi',
+  'ss',
+  'flags',
+  'bMean',
+  'occupancyMin',
+  'cbDeviationA',
+  'bondZMax',
+  'angleZMax',
+  'rama',
+  'steric',
+  'rotamer',
+];
+
+/** One row per residue conformer of every model, fixed columns (chi1–5 split out). */
+export function residuesCsv(report: Report): string {
+  const rows = report.models.flatMap((m) =>
+    m.residues.map((r) => {
+      const o: Record<string, unknown> = { model: m.model };
+      for (const c of RESIDUE_COLUMNS) {
+        if (c === 'chi') for (let i = 0; i < 5; i++) o[`chi${i + 1}`] = r.chi[i] ?? null;
+        else if (c === 'rama')
+          o.rama = r.rama
+            ? { class: r.rama.class, verdict: r.rama.verdict, percentile: r.rama.percentile }
+            : { class: null, verdict: null, percentile: null };
+        else if (c === 'rotamer')
+          o.rotamer = r.rotamer
+            ? {
+                name: r.rotamer.name ?? null,
+                verdict: r.rotamer.verdict,
+                percentile: r.rotamer.percentile,
+              }
+            : { name: null, verdict: null, percentile: null };
+        else o[c] = r[c] ?? null;
+      }
+      return o;
+    }),
+  );
+  return rowsToCsv(rows);
+}
+
+/** Plain-word flags of values that should make an author look again (counts above zero). */
+export function worryingValues(report: Report): string[] {
+  const out: string[] = [...report.cautions];
+  const m = report.models[0];
+  if (!m) return out;
+  const s = m.summary;
+  const pct = (a: number, t: number) => (t > 0 ? ((100 * a) / t).toFixed(1) : '0');
+  if (s.rama && s.rama.overall.outlier > 0)
+    out.push(
+      `${s.rama.overall.outlier} of ${s.rama.overall.total} residues (${pct(s.rama.overall.outlier, s.rama.overall.total)}%) lie outside the allowed Ramachandran regions; look at each one in the density.`,
+    );
+  if (s.rotamers && s.rotamers.outlier > 0)
+    out.push(
+      `${s.rotamers.outlier} of ${s.rotamers.total} side chains have unusual rotamers; check that the density supports them.`,
+    );
+  const cisNonPro = s.cisPeptides - s.cisProPeptides;
+  if (cisNonPro > 0)
+    out.push(
+      `${cisNonPro} cis peptide(s) before a residue other than proline: these are rare and each needs clear density.`,
+    );
+  if (s.twistedPeptides > 0)
+    out.push(`${s.twistedPeptides} peptide(s) are twisted far from planar; check them.`);
+  if (s.dResidues > 0)
+    out.push(
+      `${s.dResidues} residue(s) have D (inverted) chirality at CA; unless intended, this is a building error.`,
+    );
+  if (s.cbOutliers > 0)
+    out.push(`${s.cbOutliers} residue(s) have a CB far from its ideal position.`);
+  if (s.overlaps && s.overlaps.severe > 0)
+    out.push(`${s.overlaps.severe} pair(s) of atoms overlap severely (0.4 Å or more).`);
+  if (s.bonds.outliers > 0 || s.angles.outliers > 0)
+    out.push(
+      `${s.bonds.outliers} bond length(s) and ${s.angles.outliers} bond angle(s) deviate by more than 4σ from ideal values.`,
+    );
+  return out;
+}
+
+function readme(
+  title: string,
+  manifest: Omit<Manifest, 'files'>,
+  files: Omit<ManifestFile, 'sha256' | 'sizeBytes'>[],
+  reports: { n: number; report: Report }[],
+): string {
+  const L: string[] = [];
+  L.push(`# Review package: ${title}`, '');
+  if (!manifest.anonymised && manifest.preparedBy.length)
+    L.push(`Prepared by ${manifest.preparedBy.join(', ')}.`, '');
+  if (manifest.anonymised)
+    L.push('This package is anonymised: it names no author, lab or uploaded file.', '');
+  L.push('## Cautions', '');
+  L.push(
+    '- These statistics support expert judgement; they do not replace it. Look at every flagged residue in the experimental map before drawing conclusions.',
+    "- The journal's and the structure archive's own requirements and validation still apply; this package does not stand in for them.",
+  );
+  for (const { n, report } of reports) {
+    const w = worryingValues(report);
+    L.push('', `### Model version ${n}`, '');
+    if (w.length === 0)
+      L.push('- No counts of concern were found by the checks this package covers.');
+    for (const line of w) L.push(`- ${line}`);
+  }
+  L.push('', '## Versions', '');
+  L.push(`- Foldfolio engine ${ENGINE_VERSION}`);
+  const ref = reports[0]?.report.reference;
+  L.push(`- Reference data: ${ref ? `${ref.id} (sha256 ${ref.sha256})` : 'none'}`);
+  for (const i of manifest.inputs.filter(
+    (x) => x.kind !== 'model' && x.kind !== 'engine' && x.kind !== 'reference',
+  ))
+    L.push(`- ${i.kind} ${i.id} version ${i.version} (sha256 ${i.sha256})`);
+  for (const i of manifest.inputs.filter((x) => x.kind === 'model'))
+    L.push(
+      `- model version ${i.version}: sha256 ${i.sha256}${i.path ? `, in ${i.path}` : ', not included'}`,
+    );
+  L.push('', '## Files', '');
+  L.push(
+    '- `manifest.json` — every file with its SHA-256 and the inputs (with versions and SHA-256) it depends on.',
+  );
+  for (const f of files) L.push(`- \`${f.path}\` — ${f.description}`);
+  L.push(
+    '',
+    '## Checking this package',
+    '',
+    'Run `npx foldfolio verify <package.zip>` (or use the Verify page of Foldfolio). It checks every',
+    'file against manifest.json, recomputes everything from the model with the recorded template',
+    'versions, and reports each file as identical, different (with what differs), missing or unexpected.',
+    '',
+  );
+  return L.join('\n');
+}
+
+/** Builds every file of the package and the deterministic zip. */
+export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
+  if (input.models.length === 0)
+    throw new PackageBuildError('Choose at least one model version to put in the package.');
+  const models = [...input.models].sort((a, b) => a.n - b.n);
+  if (new Set(models.map((m) => m.n)).size !== models.length)
+    throw new PackageBuildError('Each model version can be chosen once; remove the duplicate.');
+  const progress = input.onProgress ?? (() => undefined);
+  const templates = templateInputs();
+  const figureTemplates = listFigureTemplates();
+  const steps = models.length * (2 + figureTemplates.length) + 2;
+  let step = 0;
+  const tick = (what: string) => progress(Math.min(0.99, ++step / steps), what);
+
+  const entries: {
+    path: string;
+    kind: FileKind;
+    bytes: Buffer;
+    dependsOn: string[];
+    description: string;
+  }[] = [];
+  const inputs: ManifestInput[] = [
+    { key: 'engine', kind: 'engine', id: 'foldfolio-engine', version: ENGINE_VERSION, sha256: '' },
+  ];
+  const reports: { n: number; report: Report }[] = [];
+  let previous: Report | null = null;
+  let previousKey: string | null = null;
+  for (const m of models) {
+    // The engine is given no file name when anonymising (it never writes it into the report;
+    // the format is sniffed from the content either way).
+    const report = await buildReport(new Uint8Array(m.bytes), {
+      filename: input.anonymise ? '' : m.filename,
+      gunzip: nodeGunzip,
+    });
+    tick(`analysed model version ${m.n}`);
+    reports.push({ n: m.n, report });
+    const key = `model:v${m.n}`;
+    const path = modelPath(m.n, report);
+    inputs.push({
+      key,
+      kind: 'model',
+      id: `v${m.n}`,
+      version: String(m.n),
+      sha256: sha256(m.bytes),
+      sizeBytes: m.bytes.length,
+      ...(input.includeModel ? { path } : {}),
+      ...(input.anonymise ? {} : { filename: m.filename }),
+    });
+    if (input.includeModel)
+      entries.push({
+        path,
+        kind: 'model',
+        bytes: m.bytes,
+        dependsOn: [key],
+        description: `the model file of version ${m.n}, as uploaded.`,
+      });
+    const dir = `v${m.n}`;
+    entries.push({
+      path: `${dir}/report.json`,
+      kind: 'report',
+      bytes: Buffer.from(JSON.stringify(report, null, 2) + '\n', 'utf8'),
+      dependsOn: [key, 'engine'],
+      description: `the full validation report of version ${m.n} (schema ${report.schema}).`,
+    });
+    entries.push({
+      path: `${dir}/residues.csv`,
+      kind: 'residues',
+      bytes: Buffer.from(residuesCsv(report), 'utf8'),
+      dependsOn: [key, 'engine'],
+      description: `one row per residue conformer of version ${m.n}: torsions, secondary structure, flags and verdicts.`,
+    });
+    for (const t of figureTemplates) {
+      const id = t.manifest.id;
+      if (t.manifest.needsComparison && !previous) {
+        tick(`skipped ${id}`);
+        continue;
+      }
+      const fig = await renderFigure({
+        report,
+        previous,
+        templateId: id,
+        presetId: PACKAGE_PRESET,
+      });
+      const deps = [key, `figure-template:${id}`, `preset:${PACKAGE_PRESET}`, 'engine'];
+      if (t.manifest.needsComparison && previousKey) deps.splice(1, 0, previousKey);
+      const stem = `${dir}/figures/${id}`;
+      const what = t.manifest.needsComparison
+        ? `${t.manifest.title} (against the previous chosen version)`
+        : t.manifest.title;
+      entries.push({
+        path: `${stem}.svg`,
+        kind: 'figure',
+        bytes: Buffer.from(fig.svg, 'utf8'),
+        dependsOn: deps,
+        description: `figure "${what}", SVG.`,
+      });
+      entries.push({
+        path: `${stem}.pdf`,
+        kind: 'figure',
+        bytes: await svgToPdf(fig.svg, { title: t.manifest.title }),
+        dependsOn: deps,
+        description: `figure "${what}", PDF.`,
+      });
+      entries.push({
+        path: `${stem}.data.json`,
+        kind: 'figure-data',
+        bytes: Buffer.from(JSON.stringify(fig.rows, null, 2) + '\n', 'utf8'),
+        dependsOn: deps,
+        description: `the rows drawn in "${what}", JSON.`,
+      });
+      entries.push({
+        path: `${stem}.data.csv`,
+        kind: 'figure-data',
+        bytes: Buffer.from(rowsToCsv(fig.rows), 'utf8'),
+        dependsOn: deps,
+        description: `the rows drawn in "${what}", CSV.`,
+      });
+      tick(`figure ${id} of version ${m.n}`);
+    }
+    const experiment = await experimentFromBytes(new Uint8Array(m.bytes));
+    const tableId = defaultTableFor(report.method ?? experiment.method);
+    const table = renderTableHtml({ report, experiment, templateId: tableId });
+    const tdeps = [key, `table-template:${tableId}`, 'engine'];
+    const tstem = `${dir}/tables/${tableId}`;
+    const tdesc = `the methods table (${tableId})`;
+    entries.push({
+      path: `${tstem}.html`,
+      kind: 'table',
+      bytes: Buffer.from(toHtmlDocument(table), 'utf8'),
+      dependsOn: tdeps,
+      description: `${tdesc}, HTML.`,
+    });
+    entries.push({
+      path: `${tstem}.md`,
+      kind: 'table',
+      bytes: Buffer.from(toMarkdown(table.model), 'utf8'),
+      dependsOn: tdeps,
+      description: `${tdesc}, Markdown.`,
+    });
+    entries.push({
+      path: `${tstem}.tex`,
+      kind: 'table',
+      bytes: Buffer.from(toLatex(table.model), 'utf8'),
+      dependsOn: tdeps,
+      description: `${tdesc}, LaTeX.`,
+    });
+    entries.push({
+      path: `${tstem}.csv`,
+      kind: 'table',
+      bytes: Buffer.from(toCsv(table.model), 'utf8'),
+      dependsOn: tdeps,
+      description: `${tdesc}, CSV.`,
+    });
+    entries.push({
+      path: `${tstem}.docx`,
+      kind: 'table',
+      bytes: await normaliseDocx(await toDocx(table.model)),
+      dependsOn: tdeps,
+      description: `${tdesc}, Word.`,
+    });
+    tick(`table of version ${m.n}`);
+    previous = report;
+    previousKey = key;
+  }
+  const ref = reports[0].report.reference;
+  if (ref)
+    inputs.push({
+      key: 'reference',
+      kind: 'reference',
+      id: ref.id,
+      version: ref.id,
+      sha256: ref.sha256,
+    });
+  const used = new Set(entries.flatMap((e) => e.dependsOn));
+  inputs.push(...templates.filter((t) => used.has(t.key)));
+  for (const e of entries) if (e.kind !== 'model' && ref) e.dependsOn.push('reference');
+
+  const head: Omit<Manifest, 'files'> = {
+    schema: PACKAGE_SCHEMA,
+    title: input.title,
+    anonymised: input.anonymise,
+    includesModel: input.includeModel,
+    preparedBy: input.anonymise ? [] : (input.preparedBy ?? []),
+    preset: PACKAGE_PRESET,
+    zip: { ...ZIP_SETTINGS, zlib: process.versions.zlib ?? 'unknown' },
+    inputs,
+  };
+  entries.sort((a, b) => (a.path < b.path ? -1 : 1));
+  const readmeText = readme(
+    input.title,
+    head,
+    [{ path: 'README.md', kind: 'readme', dependsOn: [], description: 'this file.' }, ...entries],
+    reports,
+  );
+  entries.unshift({
+    path: 'README.md',
+    kind: 'readme',
+    bytes: Buffer.from(readmeText, 'utf8'),
+    dependsOn: inputs.map((i) => i.key),
+    description: 'this file.',
+  });
+  const manifest: Manifest = {
+    ...head,
+    files: entries.map((e) => ({
+      path: e.path,
+      kind: e.kind,
+      sha256: sha256(e.bytes),
+      sizeBytes: e.bytes.length,
+      dependsOn: e.dependsOn,
+      description: e.description,
+    })),
+  };
+  const files = new Map<string, Buffer>(entries.map((e) => [e.path, e.bytes]));
+  files.set('manifest.json', Buffer.from(JSON.stringify(manifest, null, 2) + '\n', 'utf8'));
+  if (input.anonymise) checkAnonymous(files, input.forbiddenTexts ?? []);
+  const zip = await writeZip(files);
+  progress(1, 'zipped');
+  return { zip, manifest, files, reports: reports.map((r) => r.report) };
+}
+
+/**
+ * Fails when any entry contains one of the forbidden texts (case-insensitive; Latin-1 view of
+ * binary entries catches plain-text runs, and compressed parts of PDF/docx are checked after
+ * the zip is read back in tests). Names the file so the owner can act.
+ */
+export function checkAnonymous(files: Map<string, Buffer>, forbidden: string[]): void {
+  const needles = forbidden.map((t) => t.trim()).filter((t) => t.length >= 3);
+  for (const [path, bytes] of files) {
+    const hay = bytes.toString('latin1').toLowerCase();
+    const hayUtf8 = bytes.toString('utf8').toLowerCase();
+    for (const n of needles) {
+      const low = n.toLowerCase();
+      if (hay.includes(low) || hayUtf8.includes(low))
+        throw new PackageBuildError(
+          `The anonymised package would reveal "${n}" in ${path}. ${path.startsWith('model/') ? 'Remove it from the model file (for example its author records) and upload a new version, or build the package without the model file.' : 'Build the package without anonymisation, or tell the Foldfolio developers.'}`,
+        );
+    }
+  }
+}
+
+/** Fixed creation/modification time written into Word files (the docx library stamps "now"). */
+const DOCX_DATE = '2000-01-01T00:00:00Z';
+
+/**
+ * The docx writer stamps the current time into docProps/core.xml and its zip entries; a package
+ * needs the same bytes every time, so the parts are re-zipped with our fixed settings and the
+ * two dates replaced. [Content_Types].xml still comes first ('[' sorts before letters).
+ */
+export async function normaliseDocx(docx: Buffer): Promise<Buffer> {
+  const parts = await readZip(docx);
+  const core = parts.get('docProps/core.xml');
+  if (core)
+    parts.set(
+      'docProps/core.xml',
+      Buffer.from(
+        core
+          .toString('utf8')
+          .replace(
+            /(<dcterms:(created|modified) xsi:type="dcterms:W3CDTF">)[^<]*(<\/dcterms:\2>)/g,
+            `$1${DOCX_DATE}$3`,
+          ),
+        'utf8',
+      ),
+    );
+  return writeZip(parts);
+}
