@@ -14,7 +14,14 @@ bench_engine() {
   node shared/dist/cli/bench-engine.js "$@"
 }
 
-SECTIONS=(engine)
+# Engine II: full report with verdicts, riding hydrogens and all-atom overlaps on the reference
+# set vs gemmi read + phi/psi (bar ≤ 4×), and a 1,000,000-atom model (< 20 s, peak RSS < 3 GB,
+# linear growth) (see shared/src/cli/bench-verdicts.ts).
+bench_verdicts() {
+  node shared/dist/cli/bench-verdicts.js "$@"
+}
+
+SECTIONS=(engine verdicts)
 status=0
 for s in "${SECTIONS[@]}"; do
   echo
