@@ -10,7 +10,7 @@ interface GemmiPeptides {
 describe('CA chirality and Cβ deviation', () => {
   // Outside reference: the chiral volume from gemmi's coordinates (python3-gemmi) residue by
   // residue, to 1e-3 Å³; every residue of these L-protein entries is positive (about +2.5 Å³).
-  it.each(['1A8O.cif', '4ZHL.cif', '5i55.cif'])(
+  it.each(['1ejg.pdb.gz', '1A8O.cif', '4ZHL.cif', '5i55.cif'])(
     '%s: chiral volumes equal gemmi’s and no residue is D',
     async (file) => {
       const st = await loadFixture(file);

@@ -18,8 +18,8 @@ import {
   residueClass,
 } from '../validation/ideal/engh-huber';
 import { idealCb } from '../validation/chirality';
-import { placeAtom } from './internal-coordinates';
-import type { Vec3 } from './internal-coordinates';
+import { placeAtom } from '../geometry/place';
+import type { Vec3 } from '../geometry/place';
 import { ONE_TO_THREE, SIDE_CHAINS } from './sidechains';
 
 export type DemoFaultKind = 'cis-peptide' | 'd-residue' | 'stretched-bond';

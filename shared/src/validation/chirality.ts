@@ -6,17 +6,17 @@
  * D residue (Gly has no chiral CA and is skipped).
  *
  * Cβ deviation (Lovell et al. 2003, Proteins 50:437: > 0.25 Å is an outlier): distance from the
- * modelled CB to an ideal CB built from the modelled N, CA and C. Our construction: the point at
- * the ideal CA–CB distance from CA that makes exactly the ideal N–CA–CB and CB–CA–C angles
- * (Engh & Huber 2001, see ideal/engh-huber.ts) on the L side of the N–CA–C plane. Written in the
- * basis u = unit(N−CA), v = unit(C−CA), w = unit(u×v): CB−CA = d·(a·u + b·v + c·w) with a, b
- * from the two angle conditions and c = +√(1 − |a·u + b·v|²) (the L hand, which gives V > 0).
+ * modelled CB to an ideal CB built from the modelled N, CA and C (see idealCb: the average of a
+ * placement from the N side and one from the C side, with Engh & Huber 2001 values of the
+ * residue's class, Pro included).
  */
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
 import { STANDARD_AMINO_ACIDS } from '../io/residue-tables';
-import { caCbBond, cbAngles } from './ideal/engh-huber';
+import { BACKBONE_ANGLES, caCbBond, cbAngles, residueClass } from './ideal/engh-huber';
+import { placeAtom } from '../geometry/place';
+import type { Vec3 } from '../geometry/place';
 import type { AtomColumns } from '../model/types';
 
 /** Lovell et al. 2003: Cβ more than 0.25 Å from its ideal position is an outlier. */
@@ -32,34 +32,38 @@ export interface ChiralityResult {
   cbOutliers: number;
 }
 
-/** The ideal CB position for an L residue from N, CA, C coordinates, or null when degenerate. */
-export function idealCb(
-  n: [number, number, number],
-  ca: [number, number, number],
-  c: [number, number, number],
-  parent: string,
-): [number, number, number] | null {
+/**
+ * Dihedral (degrees, unsigned) about the CA–X axis between the planes (X, CA, Y) and (X, CA, CB)
+ * for ideal angles X–CA–Y = a, X–CA–CB = b and Y–CA–CB = g (spherical law of cosines).
+ */
+function idealDihedralDeg(a: number, b: number, g: number): number {
+  const r = Math.PI / 180;
+  const c =
+    (Math.cos(g * r) - Math.cos(a * r) * Math.cos(b * r)) / (Math.sin(a * r) * Math.sin(b * r));
+  return Math.acos(Math.max(-1, Math.min(1, c))) / r;
+}
+
+/**
+ * The ideal CB position for an L residue from N, CA, C coordinates, or null when degenerate:
+ * the average of two internal-coordinate placements (the construction Lovell et al. 2003
+ * describe), one from the N side (ideal N–CA–CB and dihedral C–N–CA–CB) and one from the C side
+ * (ideal C–CA–CB and dihedral N–C–CA–CB), at the ideal CA–CB length. The ideal dihedrals follow
+ * from the ideal N–CA–C, N–CA–CB and CB–CA–C angles of the residue class (Engh & Huber 2001),
+ * e.g. ∓123.1° for the general class; L has C–N–CA–CB negative.
+ */
+export function idealCb(n: Vec3, ca: Vec3, c: Vec3, parent: string): Vec3 | null {
   const d = caCbBond(parent).ideal;
   const ang = cbAngles(parent);
-  const u = unit([n[0] - ca[0], n[1] - ca[1], n[2] - ca[2]]);
-  const v = unit([c[0] - ca[0], c[1] - ca[1], c[2] - ca[2]]);
-  if (!u || !v) return null;
-  const w = unit(cross(u, v));
-  if (!w) return null;
-  const cu = Math.cos((ang.nCaCb.ideal * Math.PI) / 180);
-  const cv = Math.cos((ang.cbCaC.ideal * Math.PI) / 180);
-  const g = u[0] * v[0] + u[1] * v[1] + u[2] * v[2];
-  // a + b·g = cu ; a·g + b = cv
-  const det = 1 - g * g;
-  const a = (cu - cv * g) / det;
-  const b = (cv - cu * g) / det;
-  const inPlane2 = a * a + b * b + 2 * a * b * g;
-  const cc = Math.sqrt(Math.max(0, 1 - inPlane2));
-  return [
-    ca[0] + d * (a * u[0] + b * v[0] + cc * w[0]),
-    ca[1] + d * (a * u[1] + b * v[1] + cc * w[1]),
-    ca[2] + d * (a * u[2] + b * v[2] + cc * w[2]),
-  ];
+  const nCaC = BACKBONE_ANGLES['N-CA-C'][residueClass(parent)].ideal;
+  const b = ang.nCaCb.ideal;
+  const g = ang.cbCaC.ideal;
+  const degenerate = (p: Vec3, q: Vec3): boolean =>
+    Math.hypot(p[0] - q[0], p[1] - q[1], p[2] - q[2]) < 1e-6;
+  if (degenerate(n, ca) || degenerate(c, ca) || degenerate(n, c)) return null;
+  const fromN = placeAtom(c, n, ca, d, b, -idealDihedralDeg(nCaC, b, g));
+  const fromC = placeAtom(n, c, ca, d, g, idealDihedralDeg(nCaC, g, b));
+  if (fromN.some(Number.isNaN) || fromC.some(Number.isNaN)) return null;
+  return [(fromN[0] + fromC[0]) / 2, (fromN[1] + fromC[1]) / 2, (fromN[2] + fromC[2]) / 2];
 }
 
 export function analyseChirality(
@@ -102,14 +106,6 @@ export function analyseChirality(
     if (anyOut) cbOutliers++;
   }
   return { chiralVolumeA3: vol, cbDeviationA: dev, dResidues, cbOutliers };
-}
-
-function cross(p: number[], q: number[]): number[] {
-  return [p[1] * q[2] - p[2] * q[1], p[2] * q[0] - p[0] * q[2], p[0] * q[1] - p[1] * q[0]];
-}
-function unit(p: number[]): number[] | null {
-  const l = Math.sqrt(p[0] * p[0] + p[1] * p[1] + p[2] * p[2]);
-  return l > 1e-9 ? [p[0] / l, p[1] / l, p[2] / l] : null;
 }
 
 /** Chiral volume (i−c)·[(j−c)×(k−c)] in Å³ around centre c. */
