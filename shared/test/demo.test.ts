@@ -82,7 +82,12 @@ describe('demo structures (invented models with planted faults)', () => {
   it('write only items the PDBx/mmCIF dictionary defines (Debian libcifpp-data)', () => {
     const dic = fs.readFileSync('/usr/share/libcifpp/mmcif_pdbx.dic', 'utf8');
     for (const d of demos) {
-      const items = new Set(d.cif.split('\n').filter((l) => l.startsWith('_')).map((l) => l.split(/\s+/)[0]));
+      const items = new Set(
+        d.cif
+          .split('\n')
+          .filter((l) => l.startsWith('_'))
+          .map((l) => l.split(/\s+/)[0]),
+      );
       expect(items.size).toBeGreaterThan(30);
       for (const item of items) expect(dic.includes(`save_${item}\n`)).toBe(true);
     }
