@@ -24,7 +24,7 @@ run_suite() {
   # the service is an ES module package: jest needs Node's VM modules to load it
   local node_opts="${NODE_OPTIONS:-}"
   [ "$ws" = service ] && node_opts="--experimental-vm-modules $node_opts"
-  (cd "$ws" && NODE_OPTIONS="$node_opts" npx jest --ci --json --outputFile="$json" "$@") || status=1
+  (cd "$ws" && NODE_OPTIONS="$node_opts" npx jest --ci --forceExit --json --outputFile="$json" "$@") || status=1
   if [ -s "$json" ]; then
     read -r p f < <(node -e 'const r=require(process.argv[1]);console.log(r.numPassedTests, r.numFailedTests + r.numRuntimeErrorTestSuites)' "$json")
     passed=$((passed + p)); failed=$((failed + f))
