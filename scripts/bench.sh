@@ -21,7 +21,14 @@ bench_verdicts() {
   node shared/dist/cli/bench-verdicts.js "$@"
 }
 
-SECTIONS=(engine verdicts)
+# Figures and methods tables (issue 5): torsion-plot SVG for 10,000 residues < 1.5 s; every
+# figure + the methods table for 1,000 residues < 5 s (see service/src/figures/bench.ts).
+bench_figures() {
+  npm run build -w service --silent >/dev/null || { npm run build -w service; return 1; }
+  node service/dist/figures/bench.js "$@"
+}
+
+SECTIONS=(engine verdicts figures)
 status=0
 for s in "${SECTIONS[@]}"; do
   echo

@@ -141,6 +141,24 @@ function round(x: number, d = 2): number {
   return Math.round(x * f) / f;
 }
 
+// region shapes depend only on the (immutable) grid: computed once per grid, level and kind
+const shapeCache = new WeakMap<
+  RegionGrid,
+  Map<string, { x0: number; x1: number; y0: number; y1: number }[]>
+>();
+function memo(
+  grid: RegionGrid,
+  level: number,
+  fn: (g: RegionGrid, level: number) => { x0: number; x1: number; y0: number; y1: number }[],
+): { x0: number; x1: number; y0: number; y1: number }[] {
+  let m = shapeCache.get(grid);
+  if (!m) shapeCache.set(grid, (m = new Map()));
+  const key = `${fn.name}:${level}`;
+  let v = m.get(key);
+  if (!v) m.set(key, (v = fn(grid, level)));
+  return v;
+}
+
 /** Torsion-angle figure: one union dataset, `kind` tells each layer its rows. */
 export function torsionDataset(input: FigureInput, onlyClasses?: RamaClass[]): Dataset {
   const res = torsionResidues(input);
@@ -167,11 +185,12 @@ export function torsionDataset(input: FigureInput, onlyClasses?: RamaClass[]): D
     );
     const emp = input.reference?.empirical?.[cls];
     if (emp) {
-      for (const r of gridRuns(emp, 1)) rows.push({ ...base, kind: 'allowed', ...r });
-      for (const r of gridRuns(emp, 2)) rows.push({ ...base, kind: 'favored', ...r });
+      for (const r of memo(emp, 1, gridRuns)) rows.push({ ...base, kind: 'allowed', ...r });
+      for (const r of memo(emp, 2, gridRuns)) rows.push({ ...base, kind: 'favored', ...r });
     }
     const ster = input.reference?.steric?.[cls];
-    if (ster) for (const s of gridOutline(ster, 1)) rows.push({ ...base, kind: 'steric', ...s });
+    if (ster)
+      for (const s of memo(ster, 1, gridOutline)) rows.push({ ...base, kind: 'steric', ...s });
     for (const r of list) {
       const kind =
         r.verdict === 'outlier'

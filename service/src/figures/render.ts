@@ -161,16 +161,49 @@ export function captionFor(
   return lines;
 }
 
+/**
+ * A few rows that lay out like all of them: the first row of every combination of text
+ * values, the rows holding each numeric field's minimum and maximum, and every label row.
+ */
+export function probeRows(rows: Record<string, unknown>[]): Record<string, unknown>[] {
+  if (rows.length <= 200) return rows;
+  const keep = new Set<number>();
+  const seen = new Set<string>();
+  const min = new Map<string, [number, number]>();
+  const max = new Map<string, [number, number]>();
+  rows.forEach((r, i) => {
+    const sig: string[] = [];
+    for (const [k, v] of Object.entries(r)) {
+      if (typeof v === 'string' && k !== 'label') sig.push(`${k}=${v}`);
+      else if (typeof v === 'number') {
+        if (!min.has(k) || v < min.get(k)![0]) min.set(k, [v, i]);
+        if (!max.has(k) || v > max.get(k)![0]) max.set(k, [v, i]);
+      }
+    }
+    const key = sig.join('|');
+    if (!seen.has(key) || r.kind === 'label' || r.kind === 'frame') {
+      seen.add(key);
+      keep.add(i);
+    }
+  });
+  for (const [, i] of min.values()) keep.add(i);
+  for (const [, i] of max.values()) keep.add(i);
+  return rows.filter((_, i) => keep.has(i));
+}
+
 export function buildSpec(
   req: FigureRequest,
   preset: Preset,
   template: FigureTemplate,
   /** points to take off the layout width so the natural width meets the preset (second pass) */
   shrinkPt = 0,
+  /** the rows, when already computed */
+  given?: Record<string, unknown>[],
 ): { spec: Record<string, unknown>; rows: Record<string, unknown>[] } {
   const m = template.manifest;
   const params = resolveParameters(m, req.params);
-  const rows = datasetFor(m.data, req);
+  const all = given ?? datasetFor(m.data, req);
+  const rows = (req as { probe?: boolean }).probe ? probeRows(all) : all;
   const widthPt = preset.widthMm * PT_PER_MM;
   const columns = Math.max(1, Math.min(preset.panelColumns, 6));
   // left axis (~34 pt) plus gaps between panels; panels square
@@ -209,29 +242,35 @@ export async function renderFigure(
   const template = req.template ?? loadFigureTemplate(req.templateId);
   if (req.reference === undefined)
     req = { ...req, reference: figureReferenceForReport(req.report) };
-  let { spec, rows } = buildSpec(req, preset, template);
-  let raw = await host.render(spec);
-  // axes and labels take a width known only after layout: one corrective pass fits the preset
+  // axes, titles and legends take a width known only after layout: find the width to give
+  // the plot on a small probe of the rows (same categories and extents), then render once
   const targetPt = preset.widthMm * PT_PER_MM;
-  let shrink = 0;
-  for (let pass = 0; pass < 3; pass++) {
-    const over = svgSize(raw).widthPx - targetPt;
-    if (over <= 0 && over > -6) break;
+  const data = datasetFor(template.manifest.data, req);
+  const probe = buildSpec({ ...req, probe: true } as FigureRequest, preset, template, 0, data);
+  const probeOver = svgSize(await host.render(probe.spec)).widthPx - targetPt;
+  // panel widths enter the layout linearly, so one measured excess gives the correction
+  let shrink = probeOver <= 0 && probeOver > -6 ? 0 : Math.ceil(probeOver);
+  let { spec, rows } = buildSpec(req, preset, template, shrink, data);
+  let raw = await host.render(spec);
+  const over = svgSize(raw).widthPx - targetPt;
+  if (over > 0 || over <= -6) {
+    // the probe missed something (e.g. a long count label): one corrective full pass
     shrink += Math.ceil(over);
-    ({ spec, rows } = buildSpec(req, preset, template, shrink));
+    ({ spec, rows } = buildSpec(req, preset, template, shrink, data));
     raw = await host.render(spec);
   }
   const svg = finishSvg(raw, preset, {
     embedFonts: req.embedFonts,
     description: `${template.manifest.id} v${template.manifest.version}, preset ${preset.id} v${preset.version}, engine ${req.report.engine.version}`,
   });
+  const readiness = checkReadiness(svg, preset);
   return {
     templateId: template.manifest.id,
     templateVersion: template.manifest.version,
     presetId: preset.id,
     svg,
     spec,
-    readiness: checkReadiness(svg, preset),
+    readiness,
     rows,
   };
 }
