@@ -43,7 +43,7 @@ export const DEFAULT_KDE: KdeParameters = {
   pilotSigmaDeg: null,
   alpha: 0.5,
   lambdaMin: 0.25,
-  lambdaMax: 4,
+  lambdaMax: 2,
   sigmaMinDeg: 3,
   sigmaMaxDeg: 30,
   spreadCapDeg: 40,
