@@ -137,7 +137,7 @@ export function analyzeOverlaps(
     alt[k] = all.altloc[i];
     res[k] = all.residue[i];
   }
-  const grid = buildCellGrid(xs, ys, zs, { cellSizeA: 4 });
+  const grid = buildCellGrid(xs, ys, zs, { cellSizeA: 2 * 1.9 - severeA }); // cell = cutoff: 27 cells per query
   const fromModel = new Uint8Array(m);
   for (let k = 0; k < m; k++) fromModel[k] = perm[k] < all.modelAtoms ? 1 : 0;
 
