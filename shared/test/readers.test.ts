@@ -155,6 +155,11 @@ describe('one entry, several formats, one hierarchy', () => {
     expect(sniffStructure(cif, 'model.pdb').format).toBe('mmcif');
     const pdb = fs.readFileSync(path.join(FIXTURES, '1A8O.pdb'));
     expect(sniffStructure(pdb, 'model.cif').format).toBe('pdb');
+    // files from hydrogen-adding programs start with USER records (wwPDB format 3.3 + USER)
+    const user = new TextEncoder().encode(
+      'USER  MOD reduce added hydrogens\n' + pdb.toString('latin1'),
+    );
+    expect(sniffStructure(user, 'x').format).toBe('pdb');
     const bcif = sniffStructure(fs.readFileSync(path.join(FIXTURES, '1gbt.bcif.gz')));
     expect(bcif.format).toBe('bcif');
     expect(bcif.gzip).toBe(true);

@@ -25,35 +25,55 @@ export interface SniffResult {
   bytes: Uint8Array;
 }
 
-const PDB_RECORDS = [
+// Record names of the wwPDB PDB format 3.3 (plus USER, written by hydrogen-adding programs)
+const PDB_RECORDS = new Set([
   'HEADER',
-  'ATOM  ',
-  'HETATM',
-  'REMARK',
-  'CRYST1',
-  'MODEL ',
-  'TITLE ',
-  'COMPND',
-  'SOURCE',
-  'EXPDTA',
-  'AUTHOR',
-  'SEQRES',
-  'KEYWDS',
   'OBSLTE',
+  'TITLE ',
   'SPLIT ',
   'CAVEAT',
-  'JRNL  ',
+  'COMPND',
+  'SOURCE',
+  'KEYWDS',
+  'EXPDTA',
+  'NUMMDL',
+  'MDLTYP',
+  'AUTHOR',
   'REVDAT',
+  'SPRSDE',
+  'JRNL  ',
+  'REMARK',
   'DBREF ',
+  'DBREF1',
+  'DBREF2',
+  'SEQADV',
+  'SEQRES',
+  'MODRES',
+  'HET   ',
+  'HETNAM',
+  'HETSYN',
+  'FORMUL',
   'HELIX ',
   'SHEET ',
+  'SSBOND',
+  'LINK  ',
+  'CISPEP',
+  'SITE  ',
+  'CRYST1',
   'ORIGX1',
   'SCALE1',
   'MTRIX1',
-  'SPRSDE',
-  'NUMMDL',
-  'MDLTYP',
-];
+  'MODEL ',
+  'ATOM  ',
+  'ANISOU',
+  'HETATM',
+  'TER   ',
+  'ENDMDL',
+  'CONECT',
+  'MASTER',
+  'END   ',
+  'USER  ',
+]);
 
 /** True when the first bytes look like text (no NUL, few control characters). */
 function looksLikeText(bytes: Uint8Array): boolean {
@@ -87,7 +107,7 @@ function isPdbText(head: string): boolean {
   for (const raw of head.split('\n')) {
     if (raw.trim() === '') continue;
     const rec = (raw.replace('\r', '') + '      ').slice(0, 6);
-    return PDB_RECORDS.includes(rec) || rec.startsWith('TER') || rec.startsWith('END');
+    return PDB_RECORDS.has(rec) || rec.startsWith('TER') || rec.startsWith('END');
   }
   return false;
 }
