@@ -12,6 +12,9 @@ async function main(): Promise<void> {
   // analysis workers run as separate processes (FOLDFOLIO_WORKERS, default 1)
   const stopWorkers = superviseWorkers();
   process.once('exit', stopWorkers);
+  // Nest's shutdown hooks end the process by re-raising the signal, so 'exit' alone would leave
+  // the workers running after Ctrl-C or `kill`.
+  for (const signal of ['SIGINT', 'SIGTERM', 'SIGHUP'] as const) process.once(signal, stopWorkers);
   const url = `http://127.0.0.1:${cfg.port}`;
   new Logger('Foldfolio').log(`ready: ${url}  (API ${url}/api, OpenAPI ${url}/api/docs)`);
 }
