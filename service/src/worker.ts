@@ -16,11 +16,15 @@ running.worker.on('failed', (job, err) =>
 );
 
 let stopping = false;
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.on(signal, () => {
-    if (stopping) return;
-    stopping = true;
-    // finish (or hand back) the current job, then leave
-    void running.close().then(() => process.exit(0));
-  });
-}
+const stop = () => {
+  if (stopping) return;
+  stopping = true;
+  // finish (or hand back) the current job, then leave
+  void running.close().then(() => process.exit(0));
+  // a job cut short is taken up again by another worker once its lock expires: a bounded wait is safe
+  setTimeout(() => process.exit(0), 5000).unref();
+};
+for (const signal of ['SIGINT', 'SIGTERM'] as const) process.on(signal, stop);
+// Forked by the service (worker-supervisor.ts): leave with it, even if it was killed outright,
+// so no worker outlives its service.
+if (process.send) process.on('disconnect', stop);
