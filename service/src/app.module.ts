@@ -18,6 +18,7 @@ import { ModelsModule } from './models/models.module.js';
 import { LedgerModule } from './ledger/ledger.module.js';
 import { CommentsModule } from './comments/comments.module.js';
 import { NotificationsModule } from './notifications/notifications.module.js';
+import { PackagesModule } from './packages/packages.module.js';
 
 @Module({})
 export class AppModule {
@@ -39,6 +40,7 @@ export class AppModule {
         LedgerModule,
         CommentsModule,
         NotificationsModule,
+        PackagesModule,
       ],
       providers: [
         // Order matters: first who you are (JWT), then what you may do on a manuscript.

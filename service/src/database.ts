@@ -13,6 +13,8 @@ import { Analysis } from './analyses/analysis.entity.js';
 import { Comment } from './comments/comment.entity.js';
 import { NotificationMute } from './notifications/notification-mute.entity.js';
 import { Workflow1764690000000 } from './migrations/1764690000000-Workflow.js';
+import { Packages1764700000000 } from './migrations/1764700000000-Packages.js';
+import { PackageAuditEvent, ReviewLink, ReviewPackage } from './packages/package.entities.js';
 
 /** Every entity and migration, listed explicitly so the build and ts-jest see the same set. */
 export const ENTITIES = [
@@ -27,8 +29,11 @@ export const ENTITIES = [
   Analysis,
   Comment,
   NotificationMute,
+  ReviewPackage,
+  ReviewLink,
+  PackageAuditEvent,
 ];
-export const MIGRATIONS = [Foundation1764680000000, Workflow1764690000000];
+export const MIGRATIONS = [Foundation1764680000000, Workflow1764690000000, Packages1764700000000];
 
 /** MariaDB over mysql2; the schema comes only from migrations (synchronize stays off). */
 export function dataSourceOptions(cfg: AppConfig): DataSourceOptions {

@@ -3,10 +3,16 @@
 import { Logger } from '@nestjs/common';
 import { loadConfig } from './config/app-config.js';
 import { startAnalysisWorker } from './analyses/worker-runtime.js';
+import { startPackageWorker } from './packages/worker-runtime.js';
 
 const log = new Logger('Worker');
 const cfg = loadConfig();
 const running = await startAnalysisWorker(cfg);
+// review packages (issue 7) share the worker processes: one queue each, same Redis prefix
+const packages = await startPackageWorker(cfg);
+packages.worker.on('failed', (job, err) =>
+  log.warn(`review package ${job?.id} failed: ${err.message}`),
+);
 log.log(
   `analysis worker ${process.pid} listening on Redis ${cfg.redis.host}:${cfg.redis.port}, database ${cfg.db.database}`,
 );
@@ -20,7 +26,7 @@ const stop = () => {
   if (stopping) return;
   stopping = true;
   // finish (or hand back) the current job, then leave
-  void running.close().then(() => process.exit(0));
+  void Promise.all([running.close(), packages.close()]).then(() => process.exit(0));
   // a job cut short is taken up again by another worker once its lock expires: a bounded wait is safe
   setTimeout(() => process.exit(0), 5000).unref();
 };

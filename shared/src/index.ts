@@ -3,6 +3,7 @@ export * from './report/types';
 export * from './model/types';
 export * from './api/types';
 export * from './api/workflow';
+export * from './api/packages';
 export * from './experiment';
 // Readers, hierarchy lookups and torsions (engine I).
 export * from './io/errors';

@@ -50,7 +50,7 @@ export function unsafePathReason(path: string): string | null {
 }
 
 /** Deterministic zip of the given files (path → bytes). Paths are checked and sorted. */
-export function writeZip(files: Map<string, Buffer>): Promise<Buffer> {
+export async function writeZip(files: Map<string, Buffer>): Promise<Buffer> {
   const zip = new yazl.ZipFile();
   const paths = [...files.keys()].sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
   for (const p of paths) {
