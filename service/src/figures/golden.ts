@@ -6,7 +6,7 @@
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { buildReport } from '@foldfolio/shared';
+import { buildReport, type Report } from '@foldfolio/shared';
 import { experimentFromBytes } from '../tables/cli.js';
 import { renderTableHtml, toCsv, toHtmlDocument, toLatex, toMarkdown } from '../tables/render.js';
 import { renderFigure } from './render.js';
@@ -23,12 +23,40 @@ export function repoRoot(): string {
   return resolve(dirname(fileURLToPath(import.meta.url)), '../../..');
 }
 
+/** Reports of the golden fixtures, built by the engine now. */
+export async function freshReports(root = repoRoot()): Promise<Record<string, Report>> {
+  const out: Record<string, Report> = {};
+  for (const { file } of GOLDEN_FIXTURES) {
+    out[file] = await buildReport(
+      new Uint8Array(readFileSync(join(root, 'shared/test/fixtures', file))),
+      { filename: file },
+    );
+  }
+  return out;
+}
+
+/**
+ * Reports as stored beside the golden outputs: the comparison pins the engine's output so it
+ * guards the figure and table code, not every engine change (the engine has its own checks).
+ */
+export function storedReports(root = repoRoot()): Record<string, Report> {
+  const out: Record<string, Report> = {};
+  for (const { file } of GOLDEN_FIXTURES)
+    out[file] = JSON.parse(
+      readFileSync(join(root, 'golden-outputs', file, 'report.json'), 'utf8'),
+    ) as Report;
+  return out;
+}
+
 /** relative path under golden-outputs/ → file text */
-export async function goldenOutputs(root = repoRoot()): Promise<Map<string, string>> {
+export async function goldenOutputs(
+  reports: Record<string, Report>,
+  root = repoRoot(),
+): Promise<Map<string, string>> {
   const out = new Map<string, string>();
   for (const { file } of GOLDEN_FIXTURES) {
     const bytes = new Uint8Array(readFileSync(join(root, 'shared/test/fixtures', file)));
-    const report = await buildReport(bytes, { filename: file });
+    const report = reports[file];
     const experiment = await experimentFromBytes(bytes);
     const readiness: Record<string, unknown> = {};
     for (const t of listFigureTemplates()) {
@@ -54,7 +82,10 @@ export async function goldenOutputs(root = repoRoot()): Promise<Map<string, stri
 
 async function main(): Promise<void> {
   const root = repoRoot();
-  const files = await goldenOutputs(root);
+  const reports = await freshReports(root);
+  const files = await goldenOutputs(reports, root);
+  for (const [file, report] of Object.entries(reports))
+    files.set(`${file}/report.json`, JSON.stringify(report) + '\n');
   for (const [rel, text] of files) {
     const p = join(root, 'golden-outputs', rel);
     mkdirSync(dirname(p), { recursive: true });
