@@ -140,7 +140,7 @@ test('upload → progress → Quality summary → residue → comment with a men
   // open the first residue (outliers first) and comment on it, mentioning the coauthor
   await page
     .getByTestId('residue-table')
-    .locator('.bp6-table-body .bp6-table-cell')
+    .locator('.bp6-table-quadrant-main .bp6-table-body-cells .bp6-table-cell')
     .first()
     .click();
   const panel = page.getByTestId('residue-panel');
