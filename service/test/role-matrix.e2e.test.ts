@@ -153,7 +153,76 @@ const MATRIX: Record<string, Entry> = {
     allowed: ALL,
     prepare: () => ({ body: { muted: true } }),
   },
+  // Review packages (issue 7).
+  'POST /api/manuscripts/:manuscriptId/packages': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({
+      body: {
+        modelVersionIds: [await seedVersionRow(t, fx)],
+        includeModel: false,
+        anonymise: true,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/packages': { allowed: ['owner', 'editor'] },
+  'GET /api/manuscripts/:manuscriptId/packages/:packageId': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({ params: { packageId: await seedPackage(t, fx) } }),
+  },
+  'GET /api/manuscripts/:manuscriptId/packages/:packageId/zip': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({ params: { packageId: await seedPackage(t, fx) } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/packages/:packageId/links': {
+    allowed: ['owner'],
+    prepare: async (fx, t) => ({
+      params: { packageId: await seedPackage(t, fx) },
+      body: { expiresInDays: 7, label: 'matrix' },
+    }),
+  },
+  'POST /api/manuscripts/:manuscriptId/review-links/:linkId/revoke': {
+    allowed: ['owner'],
+    prepare: async (fx, t) => {
+      const packageId = await seedPackage(t, fx);
+      const linkId = randomUUID();
+      await t.db.query(
+        `INSERT INTO review_links (id, package_id, manuscript_id, secret_hash, label, expires_at)
+         VALUES (?, ?, ?, ?, '', NOW(3) + INTERVAL 1 DAY)`,
+        [linkId, packageId, fx.manuscriptId, createHash('sha256').update(linkId).digest('hex')],
+      );
+      return { params: { linkId } };
+    },
+  },
+  'GET /api/manuscripts/:manuscriptId/package-audit': { allowed: ['owner'] },
 };
+
+/** A model version row (no file or analysis needed: the package job never runs here). */
+async function seedVersionRow(t: TestApp, fx: Fixture): Promise<string> {
+  const id = randomUUID();
+  await t.db.query(
+    `INSERT INTO model_versions (id, manuscript_id, n, sha256, format, gzip, filename, size_bytes, uploaded_by)
+     VALUES (?, ?, (SELECT COALESCE(MAX(n), 0) + 1 FROM model_versions m WHERE m.manuscript_id = ?), ?, 'mmcif', 0, 'm.cif', 1, ?)`,
+    [id, fx.manuscriptId, fx.manuscriptId, '0'.repeat(64), fx.users.owner.id],
+  );
+  return id;
+}
+
+/** A finished package whose zip (a tiny real one) is in the blob store. */
+async function seedPackage(t: TestApp, fx: Fixture): Promise<string> {
+  const { Readable } = await import('node:stream');
+  const { BLOB_STORE } = await import('../src/storage/blob-store.js');
+  const { writeZip } = await import('../src/packages/zip.js');
+  const store = t.app.get<symbol, import('../src/storage/blob-store.js').BlobStore>(BLOB_STORE);
+  const zip = await writeZip(new Map([['manifest.json', Buffer.from('{}')]]));
+  const blob = await store.put(Readable.from([zip]), { maxBytes: 1 << 20 });
+  const id = randomUUID();
+  await t.db.query(
+    `INSERT INTO review_packages (id, manuscript_id, status, progress, model_version_ids, include_model, anonymised, zip_sha256, size_bytes, manifest_json, finished_at)
+     VALUES (?, ?, 'done', 100, '[]', 0, 1, ?, ?, '{"files":[]}', NOW(3))`,
+    [id, fx.manuscriptId, blob.sha256, blob.sizeBytes],
+  );
+  return id;
+}
 
 /** A figure comment by the owner, inserted directly. */
 async function seedComment(t: TestApp, fx: Fixture): Promise<string> {
