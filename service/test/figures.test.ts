@@ -10,6 +10,8 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { buildReport, type Report } from '@foldfolio/shared';
 import { svgToPdf, svgToPng } from '../src/figures/export.js';
+import { compareDataset, torsionDataset } from '../src/figures/datasets.js';
+import { figureReferenceForReport } from '../src/figures/figure-reference.js';
 import { checkReadiness, deltaE, paletteConflicts, simulate } from '../src/figures/readiness.js';
 import { renderFigure, type RenderedFigure } from '../src/figures/render.js';
 import { listFigureTemplates, loadPreset } from '../src/figures/templates.js';
@@ -102,6 +104,59 @@ describe('torsion-angle figure', () => {
       expect([preset, fig.readiness.issues]).toEqual([preset, []]);
       expect(fig.readiness.widthMm).toBe(loadPreset(preset).widthMm);
     }
+  });
+});
+
+describe('what the figures draw', () => {
+  test('residues the engine calls favored sit inside drawn favored regions, outliers outside them', () => {
+    let favored = 0;
+    let inside = 0;
+    for (const f of Object.keys(reports)) {
+      const reference = figureReferenceForReport(reports[f]);
+      expect(reference).not.toBeNull();
+      const rows = torsionDataset({ report: reports[f], reference });
+      const rects = rows.filter((r) => r.kind === 'favored') as {
+        panel: string;
+        x0: number;
+        x1: number;
+        y0: number;
+        y1: number;
+      }[];
+      expect(rects.length).toBeGreaterThan(0);
+      const inFavored = (panel: unknown, phi: number, psi: number) =>
+        rects.some(
+          (q) => q.panel === panel && phi >= q.x0 && phi <= q.x1 && psi >= q.y0 && psi <= q.y1,
+        );
+      for (const r of rows) {
+        if (r.kind === 'residue') {
+          const res = reports[f].models[0].residues.find(
+            (x) =>
+              `${x.chain} ${x.seq}${x.icode}${x.altloc ? ` ${x.altloc}` : ''} ${x.name}` ===
+              r.label,
+          );
+          if (res?.rama?.verdict !== 'favored') continue;
+          favored++;
+          if (inFavored(r.panel, r.phi as number, r.psi as number)) inside++;
+        }
+        if (r.kind === 'outlier')
+          expect([r.label, inFavored(r.panel, r.phi as number, r.psi as number)]).toEqual([
+            r.label,
+            false,
+          ]);
+      }
+    }
+    // the engine interpolates the density; the figure draws whole 2° cells: edges may differ
+    expect(favored).toBeGreaterThan(100);
+    expect(inside / favored).toBeGreaterThan(0.97);
+  });
+
+  test('comparing the same entry read from mmCIF and from PDB shows no backbone change (1A8O)', async () => {
+    const pdb = await buildReport(new Uint8Array(readFileSync(join(FIXTURES, '1A8O.pdb'))), {
+      filename: '1A8O.pdb',
+    });
+    const rows = compareDataset({ report: reports['1A8O.cif'], previous: pdb });
+    expect(rows.length).toBeGreaterThan(50);
+    for (const r of rows) expect([r.label, (r.shift as number) < 0.01]).toEqual([r.label, true]);
   });
 });
 
