@@ -23,7 +23,11 @@ let worker: RunningWorker;
 let owner: Account;
 let manuscriptId: string;
 
+// the engine's ceiling on decompressed input, low here so a small gzip bomb crosses it
+const UNZIP_LIMIT = 5 * 1024 * 1024;
+
 beforeAll(async () => {
+  process.env.FOLDFOLIO_MAX_UNCOMPRESSED_BYTES = String(UNZIP_LIMIT);
   storageDir = useTempStorage(LIMIT);
   t = await startTestApp();
   worker = await startAnalysisWorker(t.cfg);
@@ -36,6 +40,7 @@ afterAll(async () => {
   rmSync(storageDir, { recursive: true, force: true });
   delete process.env.FOLDFOLIO_STORAGE_DIR;
   delete process.env.FOLDFOLIO_UPLOAD_LIMIT_BYTES;
+  delete process.env.FOLDFOLIO_MAX_UNCOMPRESSED_BYTES;
 });
 
 function sha256(b: Buffer): string {
@@ -112,7 +117,7 @@ describe('uploading real structures', () => {
         .set('Authorization', `Bearer ${owner.token}`)
         .expect(200);
       const stored = res.body as Report;
-      const direct = await build!(fixture(v.filename), { filename: v.filename, sha256: v.sha256 });
+      const direct = await build!(fixture(v.filename), { filename: v.filename });
       expect(stored.schema).toBe('foldfolio.report/1');
       expect(stored.models.length).toBe(direct.models.length);
       expect(stored.models[0].residues.length).toBe(direct.models[0].residues.length);
@@ -186,5 +191,49 @@ describe('refusals', () => {
       .field('note', 'forgot the file')
       .expect(400);
     expect(res.body.message).toMatch(/Choose a coordinate file/);
+  });
+});
+
+describe('load and bombs', () => {
+  test('a gzip bomb (small upload, huge inside) is stored but its analysis fails with a sentence', async () => {
+    // 20 MB of CIF comment lines after a data block header: ~20 kB compressed
+    const inner = Buffer.concat([
+      Buffer.from('data_bomb\n'),
+      Buffer.alloc(20 * 1024 * 1024, '#\n'),
+    ]);
+    const bomb = gzipSync(inner, { level: 9 });
+    expect(bomb.length).toBeLessThan(LIMIT);
+    const res = await upload(t, owner, manuscriptId, bomb, 'bomb.cif.gz').expect(201);
+    const a = await waitForAnalysis(t, owner, manuscriptId, res.body.id);
+    expect(a.status).toBe('failed');
+    expect(a.error).toMatch(/expands to more than 5242880 bytes/);
+    expect(a.attempts).toBe(1);
+  });
+
+  test('20 concurrent uploads all become versions with correct reports', async () => {
+    const base = fixture('1A8O.cif');
+    const direct = await engine.buildReport(base, { filename: '1A8O.cif' });
+    const before = (
+      await request(t.server)
+        .get(`/api/manuscripts/${manuscriptId}/models`)
+        .set('Authorization', `Bearer ${owner.token}`)
+        .expect(200)
+    ).body.length as number;
+    // distinct bytes, same structure: a CIF comment line (ignored by every reader) tells them apart
+    const files = Array.from({ length: 20 }, (_, i) =>
+      Buffer.concat([Buffer.from(`# upload ${i}\n`), base]),
+    );
+    const results = await Promise.all(
+      files.map((b, i) => upload(t, owner, manuscriptId, b, `copy-${i}.cif`)),
+    );
+    expect(results.map((r) => r.status)).toEqual(files.map(() => 201));
+    const numbers = results.map((r) => (r.body as ModelVersionDto).n).sort((a, b) => a - b);
+    expect(numbers).toEqual(Array.from({ length: 20 }, (_, i) => before + 1 + i));
+    for (const r of results) {
+      const a = await waitForAnalysis(t, owner, manuscriptId, r.body.id);
+      expect(a.status).toBe('done');
+      expect(a.summary?.atoms).toBe(direct.models[0].summary.composition.atoms);
+      expect(a.summary?.ramaOutliers).toBe(direct.models[0].summary.rama?.overall.outlier ?? null);
+    }
   });
 });

@@ -29,7 +29,13 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
     );
   }
   opts.onStage('parse', 0);
-  const structure = await shared.readStructure(bytes, opts.filename);
+  // a gzip bomb stops at this ceiling (default: the engine's own, 2 GiB)
+  const limit = Number(
+    process.env.FOLDFOLIO_MAX_UNCOMPRESSED_BYTES ?? shared.DEFAULT_MAX_UNCOMPRESSED_BYTES,
+  );
+  const structure = await shared.readStructure(bytes, opts.filename, {
+    maxUncompressedBytes: limit,
+  });
   opts.onStage('geometry', 0);
   return (fromStructure as FromStructure)(structure, bytes, { filename: opts.filename });
 }
