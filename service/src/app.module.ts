@@ -19,6 +19,8 @@ import { LedgerModule } from './ledger/ledger.module.js';
 import { CommentsModule } from './comments/comments.module.js';
 import { NotificationsModule } from './notifications/notifications.module.js';
 import { PackagesModule } from './packages/packages.module.js';
+import { TemplatesModule } from './templates/templates.module.js';
+import { FiguresModule } from './figures/figures.module.js';
 
 @Module({})
 export class AppModule {
@@ -41,6 +43,8 @@ export class AppModule {
         CommentsModule,
         NotificationsModule,
         PackagesModule,
+        TemplatesModule,
+        FiguresModule,
       ],
       providers: [
         // Order matters: first who you are (JWT), then what you may do on a manuscript.

@@ -14,6 +14,13 @@ import { Comment } from './comments/comment.entity.js';
 import { NotificationMute } from './notifications/notification-mute.entity.js';
 import { Workflow1764690000000 } from './migrations/1764690000000-Workflow.js';
 import { Packages1764700000000 } from './migrations/1764700000000-Packages.js';
+import { Templates1764710000000 } from './migrations/1764710000000-Templates.js';
+import {
+  MethodsFormEntry,
+  Template,
+  TemplatePin,
+  TemplateVersion,
+} from './templates/template.entities.js';
 import { PackageAuditEvent, ReviewLink, ReviewPackage } from './packages/package.entities.js';
 
 /** Every entity and migration, listed explicitly so the build and ts-jest see the same set. */
@@ -32,8 +39,17 @@ export const ENTITIES = [
   ReviewPackage,
   ReviewLink,
   PackageAuditEvent,
+  Template,
+  TemplateVersion,
+  TemplatePin,
+  MethodsFormEntry,
 ];
-export const MIGRATIONS = [Foundation1764680000000, Workflow1764690000000, Packages1764700000000];
+export const MIGRATIONS = [
+  Foundation1764680000000,
+  Workflow1764690000000,
+  Packages1764700000000,
+  Templates1764710000000,
+];
 
 /** MariaDB over mysql2; the schema comes only from migrations (synchronize stays off). */
 export function dataSourceOptions(cfg: AppConfig): DataSourceOptions {
