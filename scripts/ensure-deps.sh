@@ -12,6 +12,8 @@ command -v redis-server >/dev/null 2>&1 || need_apt+=(redis-server)
 command -v pdffonts >/dev/null 2>&1 || need_apt+=(poppler-utils)
 /usr/bin/python3 -c 'import gemmi' >/dev/null 2>&1 || need_apt+=(python3-gemmi)
 /usr/bin/python3 -c 'import Bio' >/dev/null 2>&1 || need_apt+=(python3-biopython)
+# Pillow reads the PNG figures' size and dpi in the figure tests
+/usr/bin/python3 -c 'import PIL' >/dev/null 2>&1 || need_apt+=(python3-pil)
 
 if [ ${#need_apt[@]} -gt 0 ]; then
   log "installing Debian packages: ${need_apt[*]}"

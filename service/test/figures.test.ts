@@ -224,6 +224,22 @@ describe('PDF and PNG', () => {
     expect(png.subarray(1, 4).toString('latin1')).toBe('PNG');
     // IHDR width, big-endian at byte 16 (PNG specification, ISO/IEC 15948)
     expect(png.readUInt32BE(16)).toBe(Math.round((89 / 25.4) * 300));
+    // Pillow (Debian python3-pil) reads the size and the dpi we wrote
+    const p = join(OUT, 'torsion.png');
+    writeFileSync(p, png);
+    const info = JSON.parse(
+      execFileSync(
+        '/usr/bin/python3',
+        [
+          '-c',
+          'import sys,json;from PIL import Image;im=Image.open(sys.argv[1]);im.load();print(json.dumps({"size":im.size,"dpi":im.info.get("dpi")}))',
+          p,
+        ],
+        { encoding: 'utf8' },
+      ),
+    );
+    expect(info.size[0]).toBe(Math.round((89 / 25.4) * 300));
+    expect(info.dpi[0]).toBeCloseTo(300, 0);
   });
 });
 

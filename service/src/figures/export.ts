@@ -5,7 +5,7 @@
 import { createRequire } from 'node:module';
 import { Resvg } from '@resvg/resvg-js';
 import { FIGURE_FONTS, sfntFontFiles } from './fonts.js';
-import { PT_PER_MM, svgSize } from './svg.js';
+import { PT_PER_MM } from './svg.js';
 
 const require = createRequire(import.meta.url);
 type PdfDoc = {
@@ -101,6 +101,40 @@ export function svgToPng(svg: string, dpi = 300): Buffer {
     },
     background: 'white',
   });
-  void svgSize;
-  return r.render().asPng();
+  return withDpi(r.render().asPng(), dpi);
+}
+
+// CRC-32 as the PNG specification (ISO/IEC 15948, annex D) defines it
+const CRC_TABLE = (() => {
+  const t = new Uint32Array(256);
+  for (let n = 0; n < 256; n++) {
+    let c = n;
+    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
+    t[n] = c >>> 0;
+  }
+  return t;
+})();
+function crc32(buf: Buffer): number {
+  let c = 0xffffffff;
+  for (const b of buf) c = CRC_TABLE[(c ^ b) & 0xff] ^ (c >>> 8);
+  return (c ^ 0xffffffff) >>> 0;
+}
+
+/** Adds a pHYs chunk (pixels per metre) after IHDR so programs read the intended dpi. */
+export function withDpi(png: Buffer, dpi: number): Buffer {
+  const ppm = Math.round(dpi / 0.0254);
+  const data = Buffer.alloc(9);
+  data.writeUInt32BE(ppm, 0);
+  data.writeUInt32BE(ppm, 4);
+  data.writeUInt8(1, 8); // unit: metre
+  const type = Buffer.from('pHYs', 'latin1');
+  const len = Buffer.alloc(4);
+  len.writeUInt32BE(9, 0);
+  const crc = Buffer.alloc(4);
+  crc.writeUInt32BE(crc32(Buffer.concat([type, data])), 0);
+  // signature (8) + IHDR chunk (4 length + 4 type + 13 data + 4 CRC) = 33 bytes
+  const at = 33;
+  const rest = png.subarray(at).toString('latin1').includes('pHYs') ? null : png.subarray(at);
+  if (!rest) return png;
+  return Buffer.concat([png.subarray(0, at), len, type, data, crc, rest]);
 }
