@@ -15,6 +15,8 @@ import { AdminLayout } from './routes/admin/AdminLayout';
 import { OutboxPage } from './routes/admin/OutboxPage';
 import { UsersPage } from './routes/admin/UsersPage';
 import { WorkspacePage } from './routes/manuscript/Workspace';
+import { ReviewerPage } from './routes/ReviewerPage';
+import { VerifyPage } from './routes/VerifyPage';
 
 const queryClient = new QueryClient({
   defaultOptions: {
@@ -34,6 +36,8 @@ const router = createBrowserRouter([
   { path: '/reset-password', element: <ResetRequestPage /> },
   { path: '/reset-password/:token', element: <ResetConfirmPage /> },
   { path: '/invitations/:token', element: <AcceptInvitationPage /> },
+  // reviewers follow a link without an account
+  { path: '/review/:token', element: <ReviewerPage /> },
   {
     element: (
       <RequireSignedIn>
@@ -45,6 +49,7 @@ const router = createBrowserRouter([
       { path: '/desk', element: <DeskPage /> },
       { path: '/manuscripts/:id', element: <WorkspacePage /> },
       { path: '/manuscripts/:id/:tab', element: <WorkspacePage /> },
+      { path: '/verify', element: <VerifyPage /> },
       {
         path: '/admin',
         element: (
