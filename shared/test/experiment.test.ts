@@ -6,22 +6,34 @@
 import { execFileSync } from 'node:child_process';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { experimentItemNames, readExperimentFromText, type ExperimentalStats } from '../src/experiment';
+import {
+  experimentItemNames,
+  readExperimentFromBytes,
+  readExperimentFromText,
+  type ExperimentalStats,
+} from '../src/experiment';
 
 const FIXTURES = join(__dirname, 'fixtures');
 const DICTIONARY = '/usr/share/libcifpp/mmcif_pdbx.dic';
 
-const files = readdirSync(FIXTURES).filter((f) => /\.(cif|pdb)$/.test(f)).sort();
+const files = readdirSync(FIXTURES)
+  .filter((f) => /\.(cif|pdb)$/.test(f))
+  .sort();
 const ours = new Map<string, ExperimentalStats>();
 let gemmi: Record<string, Record<string, number | string>> = {};
 
 beforeAll(async () => {
-  for (const f of files) ours.set(f, await readExperimentFromText(readFileSync(join(FIXTURES, f), 'utf8')));
+  for (const f of files)
+    ours.set(f, await readExperimentFromText(readFileSync(join(FIXTURES, f), 'utf8')));
   const xray = files.filter((f) => ours.get(f)!.method === 'x-ray');
-  const out = execFileSync('/usr/bin/python3', [join(__dirname, 'reference/experiment_gemmi.py'), ...xray.map((f) => join(FIXTURES, f))], {
-    encoding: 'utf8',
-    maxBuffer: 1 << 24,
-  });
+  const out = execFileSync(
+    '/usr/bin/python3',
+    [join(__dirname, 'reference/experiment_gemmi.py'), ...xray.map((f) => join(FIXTURES, f))],
+    {
+      encoding: 'utf8',
+      maxBuffer: 1 << 24,
+    },
+  );
   gemmi = JSON.parse(out);
 });
 
@@ -44,7 +56,10 @@ describe('experimental statistics vs gemmi', () => {
       for (const [key, expected] of Object.entries(ref)) {
         const got = mine[key]?.value;
         compared++;
-        const ok = typeof expected === 'number' ? typeof got === 'number' && close(got, expected) : got === expected;
+        const ok =
+          typeof expected === 'number'
+            ? typeof got === 'number' && close(got, expected)
+            : got === expected;
         if (!ok) mismatches.push(`${file} ${key}: ours ${String(got)} gemmi ${String(expected)}`);
       }
     }
@@ -55,7 +70,16 @@ describe('experimental statistics vs gemmi', () => {
   test('a legacy PDB header gives the same numbers as the same entry in mmCIF read by gemmi (1A8O)', () => {
     const pdb = ours.get('1A8O.pdb')!.values;
     const ref = gemmi['1A8O.cif'];
-    for (const key of ['resolutionHighA', 'resolutionLowA', 'completenessPct', 'reflectionsUnique', 'rWork', 'rFree', 'refineResolutionHighA', 'reflectionsRefinement']) {
+    for (const key of [
+      'resolutionHighA',
+      'resolutionLowA',
+      'completenessPct',
+      'reflectionsUnique',
+      'rWork',
+      'rFree',
+      'refineResolutionHighA',
+      'reflectionsRefinement',
+    ]) {
       expect([key, pdb[key]?.value]).toEqual([key, ref[key]]);
       expect(pdb[key].source).toMatch(/^REMARK (3|200) /);
     }
@@ -78,7 +102,10 @@ describe('experimental statistics vs gemmi', () => {
     const text = readFileSync(join(FIXTURES, '2OFG.cif'), 'utf8');
     expect(/_pdbx_nmr_ensemble.conformers_submitted_total_number\s+30/.test(text)).toBe(true);
     const v = ours.get('2OFG.cif')!.values;
-    expect(v.nmrConformersSubmitted).toEqual({ value: 30, source: '_pdbx_nmr_ensemble.conformers_submitted_total_number' });
+    expect(v.nmrConformersSubmitted).toEqual({
+      value: 30,
+      source: '_pdbx_nmr_ensemble.conformers_submitted_total_number',
+    });
     expect(v.rFree).toBeUndefined();
   });
 
@@ -86,6 +113,30 @@ describe('experimental statistics vs gemmi', () => {
     const s = ours.get('5cvz_final.pdb')!;
     expect(s.method).toBe('x-ray');
     expect(s.values.rFree.value).toBe(0.22896);
+  });
+});
+
+describe('other containers', () => {
+  test('BinaryCIF (gzip) gives the same values as the same entry in mmCIF text (1GBT, 3JQH)', async () => {
+    for (const [bcif, cif] of [
+      ['1gbt.bcif.gz', '1GBT.cif'],
+      ['3jqh.bcif.gz', '3JQH.cif'],
+    ]) {
+      const a = await readExperimentFromBytes(
+        new Uint8Array(readFileSync(join(FIXTURES, bcif))),
+        bcif,
+      );
+      const b = await readExperimentFromText(readFileSync(join(FIXTURES, cif), 'utf8'));
+      expect(a.method).toBe('x-ray');
+      expect(Object.keys(a.values).length).toBeGreaterThan(10);
+      // the program name is written differently in the two archive files (PHENIX vs PHENIX (phenix.refine))
+      for (const [k, v] of Object.entries(b.values).filter(([k]) => k !== 'refinementProgram')) {
+        // BinaryCIF stores numbers as floats: compare numerically
+        if (typeof v.value === 'number')
+          expect([bcif, k, a.values[k]?.value]).toEqual([bcif, k, expect.closeTo(v.value, 6)]);
+        else expect([bcif, k, a.values[k]?.value]).toEqual([bcif, k, v.value]);
+      }
+    }
   });
 });
 
@@ -103,6 +154,8 @@ describe('PDBx dictionary', () => {
 describe('bad input', () => {
   test('a file that is not a structure gives an actionable error', async () => {
     await expect(readExperimentFromText('')).rejects.toThrow(/upload the model as/);
-    await expect(readExperimentFromText('%PDF-1.7 binary \u0000\u0001')).rejects.toThrow(/neither PDBx\/mmCIF/);
+    await expect(readExperimentFromText('%PDF-1.7 binary \u0000\u0001')).rejects.toThrow(
+      /neither PDBx\/mmCIF/,
+    );
   });
 });

@@ -1,13 +1,7 @@
 /** `foldfolio tables`: model file → methods table as HTML, Markdown, LaTeX, CSV and docx. */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
-import {
-  buildReport,
-  readExperimentFromBinaryCif,
-  readExperimentFromText,
-  sniffStructure,
-  type ExperimentalStats,
-} from '@foldfolio/shared';
+import { buildReport, readExperimentFromBytes, type ExperimentalStats } from '@foldfolio/shared';
 import { parseArgs } from '../figures/cli.js';
 import { renderTableHtml, toCsv, toDocx, toHtmlDocument, toLatex, toMarkdown } from './render.js';
 import type { MethodsForm } from './values.js';
@@ -19,9 +13,7 @@ type Io = { out: (t: string) => void; err: (t: string) => void };
 
 /** Experimental statistics straight from the file bytes (gzip, BinaryCIF, mmCIF or PDB). */
 export async function experimentFromBytes(bytes: Uint8Array): Promise<ExperimentalStats> {
-  const s = sniffStructure(bytes, '');
-  if (s.format === 'bcif') return readExperimentFromBinaryCif(s.bytes);
-  return readExperimentFromText(new TextDecoder().decode(s.bytes));
+  return readExperimentFromBytes(bytes);
 }
 
 export async function runTablesCommand(args: string[], io: Io): Promise<number> {

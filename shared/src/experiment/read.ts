@@ -5,6 +5,7 @@
 import { CIF } from 'molstar/lib/commonjs/mol-io/reader/cif';
 import type { CifBlock, CifField } from 'molstar/lib/commonjs/mol-io/reader/cif/data-model';
 import type { ExperimentalValue } from '../report/types';
+import { sniffStructure } from '../io/read';
 import { EXPERIMENT_FIELDS, type ExperimentMethod } from './fields';
 
 export interface ExperimentalStats {
@@ -55,7 +56,14 @@ function highestShellRow(block: CifBlock): number {
 
 function toValue(raw: string, kind: 'number' | 'string'): string | number | null {
   const s = raw.trim();
-  if (s === '' || s === '?' || s === '.' || s.toUpperCase() === 'NULL' || s.toUpperCase() === 'NONE') return null;
+  if (
+    s === '' ||
+    s === '?' ||
+    s === '.' ||
+    s.toUpperCase() === 'NULL' ||
+    s.toUpperCase() === 'NONE'
+  )
+    return null;
   if (kind === 'number') {
     const n = Number(s);
     return Number.isFinite(n) ? n : null;
@@ -147,8 +155,12 @@ export function readExperimentFromPdb(text: string): ExperimentalStats {
       method = methodFromText(line.slice(10));
     } else if (rec === 'CRYST1' && line.length >= 54) {
       const cell: [string, number, number][] = [
-        ['cellA', 6, 15], ['cellB', 15, 24], ['cellC', 24, 33],
-        ['cellAlpha', 33, 40], ['cellBeta', 40, 47], ['cellGamma', 47, 54],
+        ['cellA', 6, 15],
+        ['cellB', 15, 24],
+        ['cellC', 24, 33],
+        ['cellAlpha', 33, 40],
+        ['cellBeta', 40, 47],
+        ['cellGamma', 47, 54],
       ];
       for (const [key, a, b] of cell) {
         const v = toValue(line.slice(a, b), 'number');
@@ -161,7 +173,8 @@ export function readExperimentFromPdb(text: string): ExperimentalStats {
       const body = line.slice(11);
       if (num === 2) {
         const m = /RESOLUTION\.\s+([0-9.]+)\s+ANGSTROM/.exec(body);
-        if (m && !values.refineResolutionHighA) values.resolutionRemark2 = { value: Number(m[1]), source: 'REMARK 2' };
+        if (m && !values.refineResolutionHighA)
+          values.resolutionRemark2 = { value: Number(m[1]), source: 'REMARK 2' };
         continue;
       }
       const colon = body.indexOf(':');
@@ -190,7 +203,11 @@ export function readExperimentFromPdb(text: string): ExperimentalStats {
 }
 
 function looksLikePdb(text: string): boolean {
-  return /^(HEADER|REMARK|CRYST1|ATOM {2}|HETATM|MODEL |EXPDTA|TITLE |COMPND)/m.test(text.slice(0, 4000)) && !/^data_/m.test(text.slice(0, 4000));
+  return (
+    /^(HEADER|REMARK|CRYST1|ATOM {2}|HETATM|MODEL |EXPDTA|TITLE |COMPND)/m.test(
+      text.slice(0, 4000),
+    ) && !/^data_/m.test(text.slice(0, 4000))
+  );
 }
 
 /** Text input: PDBx/mmCIF or legacy PDB, detected from the content. */
@@ -208,7 +225,10 @@ export async function readExperimentFromText(text: string): Promise<Experimental
     );
   }
   const block = parsed.result.blocks[0];
-  if (!block) throw new ExperimentReadError('The mmCIF file has no data block; upload a complete PDBx/mmCIF file.');
+  if (!block)
+    throw new ExperimentReadError(
+      'The mmCIF file has no data block; upload a complete PDBx/mmCIF file.',
+    );
   return readExperimentFromCifBlock(block);
 }
 
@@ -216,10 +236,13 @@ export async function readExperimentFromText(text: string): Promise<Experimental
 export async function readExperimentFromBinaryCif(bytes: Uint8Array): Promise<ExperimentalStats> {
   const parsed = await CIF.parseBinary(bytes).run();
   if (parsed.isError) {
-    throw new ExperimentReadError(`The BinaryCIF file could not be read (${parsed.toString()}); upload the mmCIF text instead.`);
+    throw new ExperimentReadError(
+      `The BinaryCIF file could not be read (${parsed.toString()}); upload the mmCIF text instead.`,
+    );
   }
   const block = parsed.result.blocks[0];
-  if (!block) throw new ExperimentReadError('The BinaryCIF file has no data block; upload a complete file.');
+  if (!block)
+    throw new ExperimentReadError('The BinaryCIF file has no data block; upload a complete file.');
   return readExperimentFromCifBlock(block);
 }
 
@@ -228,4 +251,14 @@ export function experimentRecord(stats: ExperimentalStats): Record<string, Exper
   const out: Record<string, ExperimentalValue> = {};
   for (const k of Object.keys(stats.values).sort()) out[k] = stats.values[k];
   return out;
+}
+
+/** Any supported upload (mmCIF, BinaryCIF, PDB, each optionally gzip) → experimental statistics. */
+export async function readExperimentFromBytes(
+  bytes: Uint8Array,
+  filenameHint = '',
+): Promise<ExperimentalStats> {
+  const s = sniffStructure(bytes, filenameHint);
+  if (s.format === 'bcif') return readExperimentFromBinaryCif(s.bytes);
+  return readExperimentFromText(new TextDecoder().decode(s.bytes));
 }
