@@ -16,6 +16,7 @@ import { join, resolve } from 'node:path';
 import { buildReport } from '../report/build';
 import { readStructure } from '../io/read';
 import { ResidueKind } from '../model/types';
+import { nodeGunzip } from './node-gunzip';
 
 const ROOT = resolve(__dirname, '../../..');
 const PY = '/usr/bin/python3';
@@ -28,6 +29,7 @@ const GEMMI_PHI_PSI = `
 import sys, time, gemmi
 files = open(sys.argv[1]).read().split()
 t0 = time.perf_counter()
+c0 = time.process_time()
 n = 0
 for f in files:
     st = gemmi.read_structure(f)
@@ -39,17 +41,26 @@ for f in files:
                 nxt = poly[i + 1] if i + 1 < len(poly) else None
                 gemmi.calculate_phi_psi(prev, poly[i], nxt)
                 n += 1
-print(time.perf_counter() - t0, n)
+print(time.perf_counter() - t0, time.process_time() - c0, n)
 `;
 
-async function reportAll(files: string[]): Promise<{ seconds: number; residues: number }> {
+async function reportAll(
+  files: string[],
+): Promise<{ seconds: number; cpuSeconds: number; residues: number }> {
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   let residues = 0;
   for (const f of files) {
-    const r = await buildReport(readFileSync(f), { filename: f });
+    // Node's zlib for gzip, as the service uses (the pure-JS inflater is the browser's fallback)
+    const r = await buildReport(readFileSync(f), { filename: f, gunzip: nodeGunzip });
     for (const m of r.models) residues += m.residues.length;
   }
-  return { seconds: (performance.now() - t0) / 1000, residues };
+  const c = process.cpuUsage(c0);
+  return {
+    seconds: (performance.now() - t0) / 1000,
+    cpuSeconds: (c.user + c.system) / 1e6,
+    residues,
+  };
 }
 
 /** mmCIF text of translated copies (150 Å apart, no contacts between copies) of a fixture's protein atoms. */
@@ -154,17 +165,21 @@ async function main(args: string[]): Promise<number> {
       .map((f) => join(refDir, f));
     const limit = Number(opt('--files', String(files.length)));
     files = files.slice(0, limit);
-    await reportAll(files.slice(0, 10)); // warm-up, not timed
+    await reportAll(files.slice(0, 60)); // warm-up (JIT), not timed
+    await reportAll(files.slice(0, 60));
     const ours = await reportAll(files);
     const list = join(work, 'files.txt');
     writeFileSync(list, files.join('\n'));
-    const [gs] = execFileSync(PY, ['-c', GEMMI_PHI_PSI, list], { encoding: 'utf8' })
+    const [gs, gc] = execFileSync(PY, ['-c', GEMMI_PHI_PSI, list], { encoding: 'utf8' })
       .trim()
       .split(/\s+/)
       .map(Number);
-    const ratio = ours.seconds / gs;
+    // The bar is judged on CPU time: on a shared machine wall-clock time also counts other
+    // processes' work; both are printed.
+    const ratio = ours.cpuSeconds / gc;
     console.log(
-      `full report (verdicts, hydrogens, overlaps) on ${files.length} files: ${ours.seconds.toFixed(2)} s; gemmi read + phi/psi ${gs.toFixed(2)} s; ratio ${ratio.toFixed(2)} (bar ≤ ${BAR_RATIO}) ${pass(ratio <= BAR_RATIO)}`,
+      `full report (verdicts, hydrogens, overlaps) on ${files.length} files: ${ours.cpuSeconds.toFixed(2)} s CPU (${ours.seconds.toFixed(2)} s wall); ` +
+        `gemmi read + phi/psi ${gc.toFixed(2)} s CPU (${gs.toFixed(2)} s wall); CPU ratio ${ratio.toFixed(2)} (bar ≤ ${BAR_RATIO}) ${pass(ratio <= BAR_RATIO)}`,
     );
     if (ratio > BAR_RATIO) failures++;
 

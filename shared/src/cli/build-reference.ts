@@ -17,6 +17,7 @@ import {
   serializeArtefact,
 } from '../reference/build';
 import type { ReferenceArtefact } from '../reference/artefact';
+import { nodeGunzip } from './node-gunzip';
 
 export const DEFAULT_REFERENCE_FOLDER = resolve(__dirname, '../../../../shared/data/reference-set');
 export const DEFAULT_REFERENCE_OUT = resolve(__dirname, '../../src/reference/data/reference.json');
@@ -55,6 +56,7 @@ export async function buildReferenceFromFolder(
       const s = await readStructure(
         new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength),
         name,
+        { gunzip: nodeGunzip },
       );
       collectObservations(s, obs);
     } catch (e) {

@@ -284,6 +284,8 @@ export function groupPositions(type: GroupType, x: V, refs: V[], len: number): V
   }
 }
 
+const GROUP_TYPES: GroupType[] = ['tet1', 'tet2', 'tri1', 'methyl', 'hydroxyl', 'planar2'];
+
 function lengthFor(conv: XhConvention, parentEl: El, type: GroupType): number {
   const t = XH_LENGTHS_A[conv];
   if (parentEl === El.C) return t[`C-${type === 'hydroxyl' || type === 'planar2' ? 'tet2' : type}`];
@@ -383,6 +385,16 @@ export function addRidingHydrogens(
     }
     return i;
   };
+  const lengthCache = new Map<number, number>();
+  const lengthOf = (e: number, type: GroupType): number => {
+    const key = e * 8 + GROUP_TYPES.indexOf(type);
+    let l = lengthCache.get(key);
+    if (l === undefined) {
+      l = lengthFor(convention, e as El, type);
+      lengthCache.set(key, l);
+    }
+    return l;
+  };
   const elOfStr = new Uint8Array(S.length);
   for (let i = 0; i < S.length; i++) elOfStr[i] = elementCode(S[i]);
   const m = atoms.count;
@@ -433,7 +445,7 @@ export function addRidingHydrogens(
       for (const q of refIdx) if (atoms.altloc[q] !== 0) shared = false;
       if (shared && !firstConformer) return;
       const hAlt = shared ? 0 : confAlt;
-      const len = lengthFor(convention, elOfStr[atoms.element[parentAtom]] as El, type);
+      const len = lengthOf(elOfStr[atoms.element[parentAtom]], type);
       const ps = groupPositions(type, pos(parentAtom), refIdx.map(pos), len);
       const rot = isRotatableGroup(type);
       for (let h = 0; h < ps.length; h++) out.push(ps[h], r, hAlt, hNames[h], parentAtom, rot);

@@ -22,7 +22,7 @@ import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
 import type { ConformerTable } from '../model/conformers';
 import type { Overlap } from '../report/types';
-import { buildCellGrid, forEachPairWithin } from '../geometry/grid';
+import { buildCellGrid, forEachPairWithin, forEachWithin } from '../geometry/grid';
 import {
   addRidingHydrogens,
   El,
@@ -118,8 +118,9 @@ export function analyzeOverlaps(
   // Reorder the atoms taking part by grid cell so the pair loop walks memory in order (the
   // all-atom set of a 1,000,000-atom model does not fit in cache); indices below are in this
   // order ("local"), `perm` maps back to the all-atom set.
-  const first = buildCellGrid(all.x, all.y, all.z, { subset: sub, cellSizeA: 4 });
-  const perm = first.cellAtoms;
+  // (small models fit in cache: keep their order and skip the extra grid)
+  const perm =
+    m > 50000 ? buildCellGrid(all.x, all.y, all.z, { subset: sub, cellSizeA: 4 }).cellAtoms : sub;
   const local = new Int32Array(n).fill(-1);
   const xs = new Float64Array(m);
   const ys = new Float64Array(m);
@@ -137,7 +138,6 @@ export function analyzeOverlaps(
     alt[k] = all.altloc[i];
     res[k] = all.residue[i];
   }
-  const grid = buildCellGrid(xs, ys, zs, { cellSizeA: 2 * 1.9 - severeA }); // cell = cutoff: 27 cells per query
   const fromModel = new Uint8Array(m);
   for (let k = 0; k < m; k++) fromModel[k] = perm[k] < all.modelAtoms ? 1 : 0;
 
@@ -192,7 +192,26 @@ export function analyzeOverlaps(
       candB.push(j);
     }
   };
-  forEachPairWithin(grid, maxContact, visit);
+  // Heavy–heavy pairs within the largest heavy contact; pairs with H need much shorter cutoffs
+  // (H···Se 1.2 + 1.9 − 0.4 = 2.7 Å, H···H 2.0 Å), so they are searched separately: about half
+  // the distance tests of one search at the heavy cutoff.
+  const heavy = new IntList();
+  const hyd = new IntList();
+  for (let k = 0; k < m; k++) (el[k] === El.H ? hyd : heavy).push(k);
+  const heavyIdx = heavy.data.subarray(0, heavy.length);
+  const hIdx = hyd.data.subarray(0, hyd.length);
+  const heavyGrid = buildCellGrid(xs, ys, zs, { subset: heavyIdx, cellSizeA: maxContact });
+  forEachPairWithin(heavyGrid, maxContact, visit);
+  const hHeavyCut = BONDI_RADII_A[El.H] + BONDI_RADII_A[El.Se] - severeA;
+  const hHCut = 2 * BONDI_RADII_A[El.H] - severeA;
+  if (hIdx.length > 0) {
+    const hGrid = buildCellGrid(xs, ys, zs, { subset: hIdx, cellSizeA: hHeavyCut });
+    forEachPairWithin(hGrid, hHCut, visit);
+    for (let q = 0; q < hIdx.length; q++) {
+      const h = hIdx[q];
+      forEachWithin(heavyGrid, xs[h], ys[h], zs[h], hHeavyCut, (a, d2) => visit(h, a, d2));
+    }
+  }
   for (let h = all.modelAtoms; h < n; h++) {
     const a = local[h];
     const b = local[all.parent[h]];
