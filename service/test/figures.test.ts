@@ -71,8 +71,10 @@ describe('torsion-angle figure', () => {
       expect(rec.width).toBe('89mm');
       const [, , w, h] = rec.viewBox.split(' ').map(Number);
       expect(parseFloat(rec.height)).toBeCloseTo((h / w) * 89, 2);
-      // first model only (an NMR ensemble draws model 1)
-      const rows = reports[f].models[0].residues.filter((r) => r.phi !== null && r.psi !== null);
+      // every model of an ensemble is drawn
+      const rows = reports[f].models
+        .flatMap((m) => m.residues)
+        .filter((r) => r.phi !== null && r.psi !== null);
       const drawn =
         (rec.marks.residue_dot_marks ?? 0) +
         (rec.marks.residue_open_marks ?? 0) +
@@ -84,13 +86,14 @@ describe('torsion-angle figure', () => {
 
   test('outliers are open diamonds labelled "chain number name"', () => {
     for (const [f, fig] of Object.entries(torsion)) {
-      const outliers = reports[f].models[0].residues.filter(
-        (r) => r.phi !== null && r.psi !== null && r.rama?.verdict === 'outlier',
-      );
-      for (const r of outliers)
-        expect(fig.svg).toContain(
-          `>${r.chain} ${r.seq}${r.icode}${r.altloc ? ` ${r.altloc}` : ''} ${r.name}<`,
-        );
+      const many = reports[f].models.length > 1;
+      for (const m of reports[f].models)
+        for (const r of m.residues.filter(
+          (x) => x.phi !== null && x.psi !== null && x.rama?.verdict === 'outlier',
+        ))
+          expect(fig.svg).toContain(
+            `>${r.chain} ${r.seq}${r.icode}${r.altloc ? ` ${r.altloc}` : ''} ${r.name}${many ? ` m${m.model}` : ''}<`,
+          );
     }
   });
 
@@ -129,11 +132,18 @@ describe('what the figures draw', () => {
         );
       for (const r of rows) {
         if (r.kind === 'residue') {
-          const res = reports[f].models[0].residues.find(
-            (x) =>
-              `${x.chain} ${x.seq}${x.icode}${x.altloc ? ` ${x.altloc}` : ''} ${x.name}` ===
-              r.label,
-          );
+          const res = reports[f].models
+            .flatMap((m) =>
+              m.residues.map((x) => ({
+                ...x,
+                name: reports[f].models.length > 1 ? `${x.name} m${m.model}` : x.name,
+              })),
+            )
+            .find(
+              (x) =>
+                `${x.chain} ${x.seq}${x.icode}${x.altloc ? ` ${x.altloc}` : ''} ${x.name}` ===
+                r.label,
+            );
           if (res?.rama?.verdict !== 'favored') continue;
           favored++;
           if (inFavored(r.panel, r.phi as number, r.psi as number)) inside++;

@@ -41,21 +41,28 @@ export function fallbackClass(
   if (name === 'ILE' || name === 'VAL') return 'ile-val';
   return 'general';
 }
-/** Residues with both phi and psi, with their class and verdict. */
+/**
+ * Residues with both phi and psi, with their class and verdict: every model of an ensemble
+ * unless `modelIndex` picks one; ensemble labels name the model ("A 57 GLY m3").
+ */
 export function torsionResidues(
   input: FigureInput,
-): { row: ResidueRow; cls: RamaClass; verdict: string }[] {
-  const rows = model(input).residues;
-  const out: { row: ResidueRow; cls: RamaClass; verdict: string }[] = [];
-  for (let i = 0; i < rows.length; i++) {
-    const r = rows[i];
-    if (r.phi === null || r.psi === null) continue;
-    const prev = i > 0 ? rows[i - 1] : undefined;
-    const cisBefore =
-      !!prev && prev.chain === r.chain && prev.omega !== null && Math.abs(prev.omega) < 30;
-    const cls = r.rama?.class ?? fallbackClass(r, rows[i + 1], cisBefore);
-    const verdict = r.rama?.verdict ?? 'unclassified';
-    out.push({ row: r, cls, verdict });
+): { row: ResidueRow; cls: RamaClass; verdict: string; label: string }[] {
+  const models = input.modelIndex === undefined ? input.report.models : [model(input)];
+  const out: { row: ResidueRow; cls: RamaClass; verdict: string; label: string }[] = [];
+  for (const m of models) {
+    const rows = m.residues;
+    for (let i = 0; i < rows.length; i++) {
+      const r = rows[i];
+      if (r.phi === null || r.psi === null) continue;
+      const prev = i > 0 ? rows[i - 1] : undefined;
+      const cisBefore =
+        !!prev && prev.chain === r.chain && prev.omega !== null && Math.abs(prev.omega) < 30;
+      const cls = r.rama?.class ?? fallbackClass(r, rows[i + 1], cisBefore);
+      const verdict = r.rama?.verdict ?? 'unclassified';
+      const label = models.length > 1 ? `${residueLabel(r)} m${m.model}` : residueLabel(r);
+      out.push({ row: r, cls, verdict, label });
+    }
   }
   return out;
 }
@@ -200,10 +207,10 @@ export function torsionDataset(input: FigureInput, onlyClasses?: RamaClass[]): D
             : 'residue';
       const phi = round(r.row.phi!);
       const psi = round(r.row.psi!);
-      rows.push({ ...base, kind, phi, psi, label: residueLabel(r.row) });
+      rows.push({ ...base, kind, phi, psi, label: r.label });
       if (kind === 'outlier') {
-        // label up-right of the mark, folded back inside the plot near the edges
-        const lx = phi > 90 ? phi - 16 : phi + 16;
+        // label towards the plot's centre line, so it never runs past the panel's edge
+        const lx = phi > 0 ? phi - 16 : phi + 16;
         const ly = psi > 140 ? psi - 16 : psi + 16;
         rows.push({
           ...base,
@@ -212,8 +219,8 @@ export function torsionDataset(input: FigureInput, onlyClasses?: RamaClass[]): D
           psi,
           lx,
           ly,
-          align: phi > 90 ? 'right' : 'left',
-          label: residueLabel(r.row),
+          align: phi > 0 ? 'right' : 'left',
+          label: r.label,
         });
       }
     }

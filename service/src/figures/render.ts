@@ -144,8 +144,16 @@ export function captionFor(
   fontPt: number,
 ): string[] {
   const ref = report.reference?.id ?? 'none (regions not drawn)';
+  const n = report.models.length;
+  // the torsion figure draws every model of an ensemble, the others the first model
+  const models =
+    n > 1
+      ? manifest.data === 'torsion'
+        ? ` All ${n} models.`
+        : ` Model ${report.models[0].model} of ${n}.`
+      : '';
   const words =
-    `${manifest.title}. Foldfolio engine ${report.engine.version}; reference ${ref}; template ${manifest.id} v${manifest.version}.`.split(
+    `${manifest.title}.${models} Foldfolio engine ${report.engine.version}; reference ${ref}; template ${manifest.id} v${manifest.version}.`.split(
       ' ',
     );
   const maxChars = Math.max(20, Math.floor(widthPt / (fontPt * 0.62)));
@@ -252,9 +260,10 @@ export async function renderFigure(
   let shrink = probeOver <= 0 && probeOver > -6 ? 0 : Math.ceil(probeOver);
   let { spec, rows } = buildSpec(req, preset, template, shrink, data);
   let raw = await host.render(spec);
-  const over = svgSize(raw).widthPx - targetPt;
-  if (over > 0 || over <= -6) {
-    // the probe missed something (e.g. a long count label): one corrective full pass
+  for (let pass = 0; pass < 2; pass++) {
+    const over = svgSize(raw).widthPx - targetPt;
+    if (over <= 0 && over > -6) break;
+    // the probe missed something (e.g. a long count label): a corrective full pass
     shrink += Math.ceil(over);
     ({ spec, rows } = buildSpec(req, preset, template, shrink, data));
     raw = await host.render(spec);
