@@ -223,7 +223,10 @@ function PackageCard({
   return (
     <Card className="ff-package" data-testid="package-card">
       <div className="ff-version-head">
-        <h4 className="bp6-heading">Versions {pkg.modelVersions.map((v) => v.n).join(', ')}</h4>
+        <h4 className="bp6-heading">
+          {pkg.modelVersions.length === 1 ? 'Version' : 'Versions'}{' '}
+          {pkg.modelVersions.map((v) => v.n).join(', ')}
+        </h4>
         {pkg.anonymised && <Tag minimal>anonymised</Tag>}
         <Tag minimal>{pkg.includeModel ? 'with model file' : 'without model file'}</Tag>
         <span className="ff-muted">{formatDateTime(pkg.createdAt)}</span>

@@ -1,0 +1,146 @@
+// Browser test of review packages (issue 7) against the real service, its worker process,
+// MariaDB, Redis and Debian's Chromium: freeze a package in the Review packages tab → make a
+// reviewer link → open it in a fresh browser context (no sign-in) → see a figure → download the
+// zip → `foldfolio verify` passes on the downloaded bytes; the owner's access log shows it.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import {
+  apiPost,
+  launchBrowser,
+  registerViaApi,
+  ROOT,
+  SCREENSHOTS,
+  startService,
+  type Person,
+  type RunningService,
+} from './harness';
+
+// invented person and lab (demo data rule: no real names)
+const OWNER: Person = {
+  name: 'Odile Brackwater',
+  email: 'odile.brackwater@saltmarsh-lab.example',
+  password: 'frozenPackage-2026',
+};
+const VIEWPORT = { width: 1280, height: 900 };
+// a real PDB entry (1A8O, X-ray) copied into the repo as a test fixture
+const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '1A8O.cif');
+
+let service: RunningService;
+let browser: Browser;
+let dir: string;
+const pageErrors: string[] = [];
+
+async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({
+    path: join(SCREENSHOTS, `${name}.png`),
+    fullPage: true,
+    animations: 'disabled',
+  });
+}
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'ff-pkg-e2e-'));
+  service = await startService();
+  browser = await launchBrowser();
+}, 90_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await service?.stop();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+afterEach(() => {
+  expect(pageErrors.splice(0)).toEqual([]);
+});
+
+test('freeze → reviewer link in a fresh context → download → verify passes', async () => {
+  const token = await registerViaApi(service.url, OWNER);
+  const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
+    title: 'Saltmarsh capsid domain, refined',
+  });
+  const form = new FormData();
+  form.append('file', new Blob([readFileSync(STRUCTURE)]), '1A8O.cif');
+  const up = await fetch(`${service.url}/api/manuscripts/${ms.id}/models`, {
+    method: 'POST',
+    headers: { Authorization: `Bearer ${token}` },
+    body: form,
+  });
+  expect(up.status).toBe(201);
+
+  // the owner freezes a package in the tab
+  const ctx = await browser.newContext({
+    baseURL: service.url,
+    viewport: VIEWPORT,
+    acceptDownloads: true,
+  });
+  const page = await ctx.newPage();
+  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail address').fill(OWNER.email);
+  await page.getByLabel('Password').fill(OWNER.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/desk$/);
+  await page.goto(`/manuscripts/${ms.id}/review-packages`);
+  await page.getByText('Version 1', { exact: true }).click();
+  await page.getByText(/^Anonymise/).click();
+  expect(await page.getByRole('checkbox', { name: /^Anonymise/ }).isChecked()).toBe(true);
+  await shot(page, 'packages-01-form');
+  await page.getByTestId('package-build').click();
+  await page.getByTestId('package-card').waitFor();
+  await page.getByTestId('package-download').waitFor({ timeout: 90_000 });
+  await page.getByLabel('Link label').fill('Referee 1');
+  await page.getByTestId('package-share').click();
+  const url = await page.getByTestId('package-link-url').inputValue();
+  expect(url).toMatch(new RegExp(`^${service.url}/review/[0-9a-f-]{36}\\.[A-Za-z0-9_-]{43}$`));
+  await shot(page, 'packages-02-shared');
+
+  // a reviewer, in a fresh context with no session, opens the link
+  const rctx = await browser.newContext({ viewport: VIEWPORT, acceptDownloads: true });
+  const reviewer = await rctx.newPage();
+  reviewer.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  await reviewer.goto(url);
+  await reviewer.getByTestId('review-title').waitFor();
+  expect(await reviewer.getByTestId('review-title').textContent()).toBe(
+    'Saltmarsh capsid domain, refined',
+  );
+  const img = reviewer.locator('.ff-review-figure img').first();
+  await img.waitFor();
+  await reviewer.waitForFunction(() => {
+    const el = document.querySelector('.ff-review-figure img') as HTMLImageElement | null;
+    return el !== null && el.complete && el.naturalWidth > 0;
+  });
+  await shot(reviewer, 'packages-03-reviewer');
+  const [download] = await Promise.all([
+    reviewer.waitForEvent('download'),
+    reviewer.getByTestId('review-download').click(),
+  ]);
+  const zipPath = join(dir, 'downloaded.zip');
+  await download.saveAs(zipPath);
+
+  // the downloaded bytes verify with the command-line tool
+  const run = spawnSync(
+    process.execPath,
+    [join(ROOT, 'service/dist/cli/main.js'), 'verify', zipPath],
+    {
+      encoding: 'utf8',
+      cwd: ROOT,
+    },
+  );
+  expect(run.stderr).toBe('');
+  expect(run.stdout).toMatch(/0 different, 0 missing, 0 unexpected, 0 not recomputed: VERIFIED/);
+  expect(run.status).toBe(0);
+
+  // the owner's access log shows the reviewer's visit and download
+  await page.reload();
+  await page.getByText(/Access log/).click();
+  const log = page.getByTestId('package-audit');
+  await log.getByText('reviewer opened the link').first().waitFor();
+  await log.getByText('reviewer downloaded the package').first().waitFor();
+  await shot(page, 'packages-04-access-log');
+  await rctx.close();
+  await ctx.close();
+}, 150_000);
