@@ -2,7 +2,7 @@
 // ports with a throw-away database, and Debian's Chromium through playwright-core.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join, resolve } from 'node:path';
 import { createConnection } from 'mysql2/promise';
@@ -53,7 +53,15 @@ export interface RunningService {
   stop(): Promise<void>;
 }
 
-export async function startService(): Promise<RunningService> {
+export interface ServiceOptions {
+  /** Access-token lifetime; short values make every page exercise the silent refresh. */
+  accessTtlSec?: number;
+  /** test-output/service-<logName>.log receives the service's output. */
+  logName?: string;
+}
+
+export async function startService(opts: ServiceOptions = {}): Promise<RunningService> {
+  const logName = opts.logName ?? 'e2e';
   const main = process.env.FOLDFOLIO_E2E_SERVICE_MAIN ?? join(ROOT, 'service', 'dist', 'main.js');
   if (!existsSync(main))
     throw new Error(`${main} does not exist: build first with \`npm run build\` at the repo root.`);
@@ -77,13 +85,11 @@ export async function startService(): Promise<RunningService> {
       FOLDFOLIO_PUBLIC_URL: url,
       FOLDFOLIO_JWT_SECRET: randomBytes(32).toString('hex'),
       FOLDFOLIO_SEED_DEMO: '0',
-      FOLDFOLIO_QUIET: '1',
       // the test signs in a handful of times from one address; keep the limiter out of the way
       FOLDFOLIO_SIGNIN_LIMIT: '50',
       // a cheaper hash keeps registration fast; the service still enforces its floor of 10
       FOLDFOLIO_BCRYPT_COST: '10',
-      // access tokens expire within the test, so every page also exercises the silent refresh
-      FOLDFOLIO_ACCESS_TTL_SEC: process.env.FOLDFOLIO_E2E_ACCESS_TTL_SEC ?? '5',
+      ...(opts.accessTtlSec ? { FOLDFOLIO_ACCESS_TTL_SEC: String(opts.accessTtlSec) } : {}),
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -100,6 +106,9 @@ export async function startService(): Promise<RunningService> {
       if (!exited) child.kill('SIGKILL');
     }
     await adminSql(`DROP DATABASE IF EXISTS \`${dbName}\``);
+    // the service's own log, for reading after a failure
+    mkdirSync(join(ROOT, 'test-output'), { recursive: true });
+    writeFileSync(join(ROOT, 'test-output', `service-${logName}.log`), output);
   };
 
   const deadline = Date.now() + 60_000;

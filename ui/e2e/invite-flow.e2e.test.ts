@@ -43,6 +43,7 @@ const FORGETFUL: Person = {
 // markup in a title must come back as literal text, never as HTML
 const TITLE = 'Crystal structure of the <b>Saltmarsh</b> lid protease & its inhibitor';
 const VIEWPORT = { width: 1280, height: 860 };
+const ACCESS_TTL_SEC = 5;
 
 let service: RunningService;
 let browser: Browser;
@@ -106,7 +107,8 @@ async function linkFromOutbox(to: string, subject: RegExp, screenshot?: string):
 }
 
 beforeAll(async () => {
-  service = await startService();
+  // access tokens expire within the test, so the pages also exercise the silent refresh
+  service = await startService({ accessTtlSec: ACCESS_TTL_SEC, logName: 'invite-flow' });
   // the first account of a fresh install becomes its admin (the one who reads the Outbox)
   await registerViaApi(service.url, ADMIN);
   browser = await launchBrowser();
@@ -226,8 +228,8 @@ test('register, create, invite, accept in a second browser; then change role, re
   await owner.getByText('No invitation is waiting for an answer.').waitFor();
   await shot(owner, '12-members-as-owner');
 
-  // let the access token expire (5 s in this service): the next actions refresh silently
-  await owner.waitForTimeout(6000);
+  // let the access token expire: the next actions refresh silently
+  await owner.waitForTimeout(ACCESS_TTL_SEC * 1000 + 1000);
   await row.getByRole('combobox').selectOption('commenter');
   await owner.getByText(`${COAUTHOR.name} is now Commenter.`).waitFor();
   await owner.reload();

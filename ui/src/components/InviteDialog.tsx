@@ -8,7 +8,7 @@ import {
   HTMLSelect,
   InputGroup,
 } from '@blueprintjs/core';
-import { MEMBERSHIP_ROLES, type MembershipRole } from '@foldfolio/shared';
+import { MEMBERSHIP_ROLES, type MembershipRole } from '@foldfolio/shared/api';
 import { useInvite } from '../api/invitations';
 import { ROLE_HINTS, ROLE_LABELS } from '../hooks/format';
 import { Problem } from './Problem';

@@ -13,7 +13,7 @@ import {
   type ManuscriptDto,
   type MemberDto,
   type MembershipRole,
-} from '@foldfolio/shared';
+} from '@foldfolio/shared/api';
 import { useNavigate } from 'react-router';
 import { errorMessage } from '../../api/client';
 import { useInvitations, useRevokeInvitation } from '../../api/invitations';
