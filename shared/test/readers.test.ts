@@ -133,6 +133,69 @@ function flatten(s: Structure, withHet = true): string[] {
   return out;
 }
 
+describe('the mmCIF _atom_site fast path', () => {
+  const cifs = STRUCTURE_FIXTURES.filter((f) => f.includes('.cif'));
+  it.each(cifs)('%s: identical to reading every item through Mol*', async (f) => {
+    const bytes = fs.readFileSync(path.join(FIXTURES, f));
+    const fast = await readStructure(bytes, f);
+    const slow = await readStructure(bytes, f, { cifFastPath: false });
+    expect(flatten(fast)).toEqual(flatten(slow));
+    expect(fast.entities).toEqual(slow.entities);
+    expect(fast.id).toBe(slow.id);
+    for (let i = 0; i < fast.models.length; i++) {
+      const a = fast.models[i];
+      const b = slow.models[i];
+      expect(Array.from(a.residues.labelSeq)).toEqual(Array.from(b.residues.labelSeq));
+      expect(Array.from(a.residues.labelAsym, (x) => fast.strings[x])).toEqual(
+        Array.from(b.residues.labelAsym, (x) => slow.strings[x]),
+      );
+      expect(Array.from(a.atoms.serial)).toEqual(Array.from(b.atoms.serial));
+      expect(Array.from(a.chains.entity, (x) => fast.strings[x])).toEqual(
+        Array.from(b.chains.entity, (x) => slow.strings[x]),
+      );
+    }
+  });
+
+  it('a damaged value in _atom_site names its line in the original file', async () => {
+    const lines = fs.readFileSync(path.join(FIXTURES, '1A8O.cif'), 'utf8').split('\n');
+    const i = lines.findIndex((l) => l.startsWith('ATOM')) + 10;
+    lines[i] = lines[i].replace(/ (-?\d+\.\d+) /, ' 1x.5 ');
+    const e = await (async () => {
+      try {
+        await readStructure(new TextEncoder().encode(lines.join('\n')), 'bad.cif');
+      } catch (err) {
+        return err as StructureReadError;
+      }
+      throw new Error('read without error');
+    })();
+    expect(e).toBeInstanceOf(StructureReadError);
+    expect(e.line).toBe(i + 1);
+    expect(e.message).toMatch(/Cartn_x/);
+  });
+
+  it('a Mol* parse error after the _atom_site loop keeps the line number of the original file', async () => {
+    const text = fs.readFileSync(path.join(FIXTURES, '1A8O.cif'), 'utf8');
+    const lines = text.split('\n');
+    // an unterminated multi-line text field after the coordinates
+    const at = lines.length - 2;
+    lines.splice(at, 0, ';broken text field never closed');
+    const bytes = new TextEncoder().encode(lines.join('\n'));
+    let err: StructureReadError | undefined;
+    try {
+      await readStructure(bytes, 'bad.cif');
+    } catch (e) {
+      err = e as StructureReadError;
+    }
+    const slow = await readStructure(bytes, 'bad.cif', { cifFastPath: false }).then(
+      () => undefined,
+      (e: StructureReadError) => e,
+    );
+    expect(err).toBeInstanceOf(StructureReadError);
+    expect(slow).toBeInstanceOf(StructureReadError);
+    expect(err!.line).toBe(slow!.line);
+  });
+});
+
 describe('one entry, several formats, one hierarchy', () => {
   // The ATOM/HETATM flag is compared only between mmCIF and BinaryCIF: 1A8O.cif writes its MSE
   // residues as ATOM while 1A8O.pdb writes them as HETATM (the files themselves differ).
@@ -187,10 +250,16 @@ describe('bad input gets a clear error, never a partial structure', () => {
     const cut = text.indexOf('ATOM', Math.floor(text.length * 0.6)) + 30;
     // (a final newline added, so the parser itself must notice the row is incomplete)
     const e = await failure(new TextEncoder().encode(text.slice(0, cut) + '\n'), '1GBT-cut.cif');
-    expect(e.line).toBeGreaterThan(100);
-    expect(e.message).toMatch(/could not be parsed/);
-    expect(e.message).toMatch(/line \d+/);
+    // the fast _atom_site scanner names the incomplete row's line
+    expect(e.line).toBe(text.slice(0, cut).split('\n').length);
+    expect(e.message).toMatch(/cut short/);
     expect(e.message).toMatch(/upload/);
+    // and Mol*'s parser, reading the same bytes, reports the damage too
+    const m = await failure(new TextEncoder().encode(text.slice(0, cut) + '\n'), '1GBT-cut.cif', {
+      cifFastPath: false,
+    });
+    expect(m.line).toBeGreaterThan(100);
+    expect(m.message).toMatch(/could not be parsed at line \d+/);
   });
 
   it('truncated mmCIF cut inside the last value of a row (would parse) names the last line', async () => {

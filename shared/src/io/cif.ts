@@ -2,12 +2,14 @@
  * PDBx/mmCIF (text) and BinaryCIF reader: Mol*'s CIF tokenizer/decoder parses the file; we fill
  * the typed-array hierarchy from `_atom_site` and read entities and modification records.
  */
-import { CIF } from 'molstar/lib/commonjs/mol-io/reader/cif';
-import type { CifBlock, CifCategory, CifField } from 'molstar/lib/commonjs/mol-io/reader/cif';
+import { CIF, CifBlock } from 'molstar/lib/commonjs/mol-io/reader/cif';
+import type { CifCategory, CifField } from 'molstar/lib/commonjs/mol-io/reader/cif';
 import type { Structure } from '../model/types';
 import type { EntityInfo } from '../model/types';
 import { NO_LABEL_SEQ, StructureBuilder } from './builder';
 import { StructureReadError } from './errors';
+import { fillAtomSite } from './cif-atom-site';
+import type { AtomSiteScan } from './cif-atom-site';
 
 const PRESENT = 0; // Column.ValueKind.Present in Mol*
 
@@ -20,14 +22,23 @@ function strOr(f: CifField | undefined, row: number, dflt: string): string {
 }
 
 export async function parseCifText(text: string): Promise<CifBlock> {
+  return firstBlockWithAtoms(await parseCifTextBlocks(text));
+}
+
+/** All data blocks; `mapLine` turns a line of `text` into a line of the original file. */
+export async function parseCifTextBlocks(
+  text: string,
+  mapLine: (line: number) => number = (l) => l,
+): Promise<ReadonlyArray<CifBlock>> {
   const parsed = await CIF.parseText(text).run();
   if (parsed.isError) {
+    const line = mapLine(parsed.line);
     throw new StructureReadError(
-      `The mmCIF file could not be parsed at line ${parsed.line}: ${parsed.message} The file may be truncated or damaged; export it again from the refinement program and upload the complete file.`,
-      { line: parsed.line },
+      `The mmCIF file could not be parsed at line ${line}: ${parsed.message} The file may be truncated or damaged; export it again from the refinement program and upload the complete file.`,
+      { line },
     );
   }
-  return firstBlockWithAtoms(parsed.result.blocks);
+  return parsed.result.blocks;
 }
 
 export async function parseBinaryCif(bytes: Uint8Array): Promise<CifBlock> {
@@ -49,7 +60,7 @@ export async function parseBinaryCif(bytes: Uint8Array): Promise<CifBlock> {
   return firstBlockWithAtoms(parsed.result.blocks);
 }
 
-function firstBlockWithAtoms(blocks: ReadonlyArray<CifBlock>): CifBlock {
+export function firstBlockWithAtoms(blocks: ReadonlyArray<CifBlock>): CifBlock {
   if (blocks.length === 0) {
     throw new StructureReadError(
       'The CIF file has no data block (no line starting with data_); upload a PDBx/mmCIF coordinate file.',
@@ -145,6 +156,38 @@ function internColumn(
   return b.intern(upper ? s.toUpperCase() : s);
 }
 
+/** A data block without categories (Mol* returns no block for `data_x` with nothing in it). */
+export function emptyCifBlock(header: string): CifBlock {
+  return CifBlock([], {}, header);
+}
+
+/** A builder with the block's entities and modification records. */
+function builderFor(block: CifBlock, rows: number): StructureBuilder {
+  const b = new StructureBuilder(rows);
+  for (const e of readEntities(block)) b.entities.push(e);
+  readModParents(block, b);
+  return b;
+}
+
+/** mmCIF through the `_atom_site` fast path: rows from the byte scan, the rest from `block`. */
+export function scannedCifToStructure(
+  block: CifBlock,
+  bytes: Uint8Array,
+  scan: AtomSiteScan,
+  gzip: boolean,
+): Structure {
+  // ~80 bytes per _atom_site row in archive files: a first guess of the row count
+  const b = builderFor(block, Math.ceil((scan.dataEnd - scan.dataStart) / 80));
+  fillAtomSite(bytes, scan, b);
+  if (b.count === 0) {
+    throw new StructureReadError(
+      `The CIF data block "${block.header}" has no _atom_site rows, so there are no atoms to analyse; upload the coordinate file (PDBx/mmCIF with _atom_site), not a dictionary or header file.`,
+      { item: '_atom_site' },
+    );
+  }
+  return b.finish('mmcif', gzip, block.header);
+}
+
 export function blockToStructure(
   block: CifBlock,
   format: 'mmcif' | 'bcif',
@@ -158,9 +201,7 @@ export function blockToStructure(
     );
   }
   const n = site.rowCount;
-  const b = new StructureBuilder(n);
-  for (const e of readEntities(block)) b.entities.push(e);
-  readModParents(block, b);
+  const b = builderFor(block, n);
 
   const fx = requireField(site, 'Cartn_x');
   const fy = requireField(site, 'Cartn_y');

@@ -5,7 +5,15 @@
  */
 import type { InputFormat } from '../report/types';
 import type { Structure } from '../model/types';
-import { blockToStructure, parseBinaryCif, parseCifText } from './cif';
+import {
+  blockToStructure,
+  emptyCifBlock,
+  parseBinaryCif,
+  parseCifText,
+  parseCifTextBlocks,
+  scannedCifToStructure,
+} from './cif';
+import { scanAtomSite } from './cif-atom-site';
 import { StructureReadError } from './errors';
 import { DEFAULT_MAX_UNCOMPRESSED_BYTES, gunzipLimited, isGzip } from './gzip';
 import type { GunzipFunction } from './gzip';
@@ -16,6 +24,8 @@ export interface ReadOptions {
   maxUncompressedBytes?: number;
   /** platform gunzip to use instead of the built-in pure-JS one (see GunzipFunction) */
   gunzip?: GunzipFunction;
+  /** false: read mmCIF `_atom_site` through Mol* too (the fast byte scanner is the default) */
+  cifFastPath?: boolean;
 }
 
 export interface SniffResult {
@@ -180,6 +190,12 @@ function assertCompleteText(bytes: Uint8Array, format: InputFormat): void {
   );
 }
 
+function countNewlines(b: Uint8Array): number {
+  let n = 0;
+  for (let i = b.indexOf(10); i >= 0; i = b.indexOf(10, i + 1)) n++;
+  return n;
+}
+
 /** Read any supported coordinate file into the typed-array hierarchy. */
 export async function readStructure(
   input: Uint8Array,
@@ -190,14 +206,24 @@ export async function readStructure(
   if (format !== 'bcif') assertCompleteText(bytes, format);
   if (format === 'pdb') return readPdb(bytes, gzip);
   if (format === 'bcif') return blockToStructure(await parseBinaryCif(bytes), 'bcif', gzip);
-  let text: string;
-  try {
-    text = new TextDecoder('utf-8', { fatal: false }).decode(bytes);
-  } catch {
-    throw new StructureReadError(
-      'The mmCIF file is not valid text; export it again as plain text and upload it.',
-      { item: 'file' },
+  const utf8 = new TextDecoder('utf-8', { fatal: false });
+  const scan = options.cifFastPath === false ? null : scanAtomSite(bytes);
+  if (scan !== null) {
+    // Mol* parses everything but the _atom_site rows; its line numbers are mapped back
+    const head = bytes.subarray(0, scan.loopStart);
+    const headLines = countNewlines(head);
+    const removed = countNewlines(bytes.subarray(scan.loopStart, scan.dataEnd));
+    const blocks = await parseCifTextBlocks(
+      utf8.decode(head) + utf8.decode(bytes.subarray(scan.dataEnd)),
+      (l) => (l > headLines ? l + removed : l),
     );
+    if (blocks.length === 1) return scannedCifToStructure(blocks[0], bytes, scan, gzip);
+    if (blocks.length === 0) {
+      // only `data_name` besides the atoms: Mol* makes no block of it
+      const m = /^\s*data_(\S*)/m.exec(utf8.decode(head.subarray(0, 4096)));
+      return scannedCifToStructure(emptyCifBlock(m?.[1] ?? ''), bytes, scan, gzip);
+    }
   }
+  const text = utf8.decode(bytes);
   return blockToStructure(await parseCifText(text), 'mmcif', gzip);
 }
