@@ -68,6 +68,11 @@ export async function createApp(cfg: AppConfig): Promise<NestExpressApplication>
     new Logger('App').warn('ui/dist not built: serving the API only (run `npm run build`).');
   }
 
-  await app.get(SmtpSinkService).start();
+  try {
+    await app.get(SmtpSinkService).start();
+  } catch (err) {
+    await app.close(); // release the database and Redis connections opened so far
+    throw err;
+  }
   return app;
 }

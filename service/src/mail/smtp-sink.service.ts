@@ -64,7 +64,13 @@ export class SmtpSinkService implements OnApplicationShutdown {
       },
     });
     await new Promise<void>((resolve, reject) => {
-      server.once('error', reject);
+      server.once('error', (err: Error) =>
+        reject(
+          new Error(
+            `the mail sink cannot listen on 127.0.0.1:${this.cfg.smtpPort} (${err.message}). Stop the other program using that port, or choose another with FOLDFOLIO_SMTP_PORT.`,
+          ),
+        ),
+      );
       server.listen(this.cfg.smtpPort, '127.0.0.1', () => resolve());
     });
     server.on('error', (err) => this.log.error(err.message));

@@ -44,8 +44,15 @@ export async function startTestApp(overrides: Record<string, string> = {}): Prom
   await admin.query(
     `CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
   );
-  const app = await createApp(cfg);
-  await app.init();
+  let app: NestExpressApplication;
+  try {
+    app = await createApp(cfg);
+    await app.init();
+  } catch (err) {
+    await admin.query(`DROP DATABASE IF EXISTS \`${database}\``);
+    await admin.end();
+    throw err;
+  }
   return {
     app,
     server: app.getHttpServer() as Server,
