@@ -29,6 +29,17 @@ function definedCount(m: ModelReport, key: 'phi' | 'psi' | 'omega'): number {
   return n;
 }
 
+/** "n favored (p %), n allowed (p %), n outliers (p %) of total" */
+function verdictCounts(c: {
+  favored: number;
+  allowed: number;
+  outlier: number;
+  total: number;
+}): string {
+  const p = (n: number) => (c.total > 0 ? ((100 * n) / c.total).toFixed(1) : '–');
+  return `${c.favored} favored (${p(c.favored)} %), ${c.allowed} allowed (${p(c.allowed)} %), ${c.outlier} outliers (${p(c.outlier)} %) of ${c.total}`;
+}
+
 /** The readable summary printed without --json. */
 export function formatSummary(report: Report, filename: string): string {
   const lines: string[] = [];
@@ -77,25 +88,18 @@ export function formatSummary(report: Report, filename: string): string {
       );
     if (s.rama) {
       const o = s.rama.overall;
-      lines.push(
-        `  Ramachandran: ${o.favored} favored, ${o.allowed} allowed, ${o.outlier} outliers of ${o.total}`,
-      );
+      lines.push(`  Ramachandran: ${verdictCounts(o)}`);
     }
     if (s.rama) {
       for (const [cls, c] of Object.entries(s.rama.byClass))
-        lines.push(
-          `    ${cls}: ${c.favored} favored, ${c.allowed} allowed, ${c.outlier} outliers of ${c.total}`,
-        );
+        lines.push(`    ${cls}: ${verdictCounts(c)}`);
       const steric: Record<string, number> = {};
       for (const r of m.residues) if (r.steric) steric[r.steric] = (steric[r.steric] ?? 0) + 1;
       lines.push(
         `  hard-sphere steric map: ${steric['full'] ?? 0} fully allowed, ${steric['outer-limit'] ?? 0} outer limit, ${steric['disallowed'] ?? 0} disallowed`,
       );
     }
-    if (s.rotamers)
-      lines.push(
-        `  rotamers: ${s.rotamers.favored} favored, ${s.rotamers.allowed} allowed, ${s.rotamers.outlier} outliers of ${s.rotamers.total}`,
-      );
+    if (s.rotamers) lines.push(`  rotamers: ${verdictCounts(s.rotamers)}`);
     if (s.overlaps)
       lines.push(
         `  all-atom overlaps: ${s.overlaps.severe} severe (≥ 0.4 Å), ${s.overlaps.perThousandAtoms} per 1000 atoms; hydrogens ${s.overlaps.hydrogens}, ${s.overlaps.xhConvention} X–H lengths`,
