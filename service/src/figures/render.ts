@@ -238,6 +238,13 @@ export function buildSpec(
     );
   }
   const spec = substitute(parsed, scope) as Record<string, unknown>;
+  const keep = m.probeLayers;
+  if ((req as { probe?: boolean }).probe && keep) {
+    // the probe only measures width: layers drawn inside the plot cannot change it
+    const holder = (spec.spec ?? spec) as { layer?: { name?: string }[] };
+    if (holder.layer)
+      holder.layer = holder.layer.filter((l) => l.name !== undefined && keep.includes(l.name));
+  }
   spec.datasets = { rows };
   return { spec, rows };
 }

@@ -35,6 +35,11 @@ export interface FigureManifest {
   data: 'torsion' | 'strip' | 'chi' | 'omega' | 'geometry-z' | 'b-groups' | 'compare';
   /** needs a second (earlier) report */
   needsComparison?: boolean;
+  /**
+   * Names of the layers that can widen the figure (text, axes); the layout probe draws only
+   * these. Omit to probe with every layer.
+   */
+  probeLayers?: string[];
   parameters: TemplateParameter[];
 }
 
