@@ -34,7 +34,7 @@ let xray: string[] = [];
 
 beforeAll(async () => {
   const files = readdirSync(FIXTURES)
-    .filter((f) => /\.(cif|pdb)$/.test(f))
+    .filter((f) => /\.(cif|pdb)(\.gz)?$/.test(f))
     .sort();
   for (const f of files) {
     const bytes = new Uint8Array(readFileSync(join(FIXTURES, f)));

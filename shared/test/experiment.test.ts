@@ -16,15 +16,16 @@ import {
 const FIXTURES = join(__dirname, 'fixtures');
 const DICTIONARY = '/usr/share/libcifpp/mmcif_pdbx.dic';
 
+// every text fixture, gzip or not (BinaryCIF is compared with its mmCIF twin below)
 const files = readdirSync(FIXTURES)
-  .filter((f) => /\.(cif|pdb)$/.test(f))
+  .filter((f) => /\.(cif|pdb)(\.gz)?$/.test(f))
   .sort();
 const ours = new Map<string, ExperimentalStats>();
 let gemmi: Record<string, Record<string, number | string>> = {};
 
 beforeAll(async () => {
   for (const f of files)
-    ours.set(f, await readExperimentFromText(readFileSync(join(FIXTURES, f), 'utf8')));
+    ours.set(f, await readExperimentFromBytes(new Uint8Array(readFileSync(join(FIXTURES, f))), f));
   const xray = files.filter((f) => ours.get(f)!.method === 'x-ray');
   const out = execFileSync(
     '/usr/bin/python3',

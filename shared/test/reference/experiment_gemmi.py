@@ -59,5 +59,6 @@ def from_pdb(path):
 
 result = {}
 for p in sys.argv[1:]:
-    result[p.split('/')[-1]] = from_pdb(p) if p.endswith('.pdb') or p.endswith('.ent') else from_cif(p)
+    is_pdb = p.endswith(('.pdb', '.ent', '.pdb.gz', '.ent.gz'))
+    result[p.split('/')[-1]] = from_pdb(p) if is_pdb else from_cif(p)
 print(json.dumps(result))
