@@ -29,3 +29,11 @@ export * from './validation/ensemble';
 export * from './secondary/dssp';
 export { buildDemoStructures, buildDemoStructure, demoSpecs, writeMmcif } from './demo/build';
 export type { DemoStructure, DemoFault, DemoFaultKind, DemoSpec, DemoChainSpec } from './demo/build';
+// Reference distributions, verdicts, steric maps, riding hydrogens, all-atom overlaps (engine II).
+export * from './reference';
+export { DensityLookup, REFERENCE_SCHEMA } from './reference/artefact';
+export * from './validation/ramachandran';
+export * from './validation/rotamer';
+export * from './validation/steric';
+export * from './validation/hydrogens';
+export * from './validation/overlaps';

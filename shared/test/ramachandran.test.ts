@@ -15,7 +15,14 @@ import { readStructure } from '../src/io/read';
 import { buildConformers } from '../src/model/conformers';
 import { ResidueKind } from '../src/model/types';
 import { computeTorsions } from '../src/validation/torsions';
-import { ramaClassOf, ramaVerdict } from '../src/validation/ramachandran';
+import {
+  RAMA_ALLOWED,
+  RAMA_FAVORED,
+  RAMA_OUTLIER,
+  ramaClassOf,
+  ramaRegionGrid,
+  ramaVerdict,
+} from '../src/validation/ramachandran';
 import { defaultReference, loadReference } from '../src/reference';
 import type { ReferenceArtefact } from '../src/reference/artefact';
 import { emptyObservations, collectObservations } from '../src/reference/build';
@@ -159,5 +166,28 @@ describe('residue classes (SCIENCE.md; Lovell et al. 2003)', () => {
     expect(ramaVerdict(ref, 'general', 0, 180)!.verdict).toBe('outlier');
     expect(ramaVerdict(ref, 'gly', 80, 180)!.verdict).not.toBe('outlier');
     expect(ramaVerdict(ref, 'trans-pro', 60, 140)!.verdict).toBe('outlier');
+  });
+});
+
+describe('region grid for figures', () => {
+  it('cell codes agree with the verdict at each cell centre', () => {
+    const ref = defaultReference();
+    for (const cls of ['general', 'gly', 'trans-pro', 'cis-pro', 'pre-pro', 'ile-val'] as const) {
+      const g = ramaRegionGrid(ref, cls);
+      let favored = 0;
+      for (let i = 0; i < g.size; i += 7)
+        for (let j = 0; j < g.size; j += 7) {
+          const phi = -180 + (i + 0.5) * g.stepDeg;
+          const psi = -180 + (j + 0.5) * g.stepDeg;
+          const v = ramaVerdict(ref, cls, phi, psi)!.verdict;
+          expect(g.codes[i * g.size + j]).toBe(
+            v === 'favored' ? RAMA_FAVORED : v === 'allowed' ? RAMA_ALLOWED : RAMA_OUTLIER,
+          );
+          if (v === 'favored') favored++;
+        }
+      // favored regions cover a minority of the plane (Lovell et al. 2003 Fig. 2, from memory)
+      expect(favored).toBeGreaterThan(0);
+      expect(favored / Math.ceil(g.size / 7) ** 2).toBeLessThan(0.5);
+    }
   });
 });

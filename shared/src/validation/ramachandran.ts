@@ -55,3 +55,27 @@ export function ramaVerdict(
   const verdict: Verdict = ln >= lv.favored ? 'favored' : ln >= lv.allowed ? 'allowed' : 'outlier';
   return { class: cls, verdict, percentile: Math.round(look.percentile(ln) * 1000) / 1000 };
 }
+
+/** Region codes of `ramaRegionGrid`. */
+export const RAMA_OUTLIER = 0;
+export const RAMA_ALLOWED = 1;
+export const RAMA_FAVORED = 2;
+
+/**
+ * The favored/allowed regions of a class on the reference grid, for figures: codes[iPhi·size +
+ * iPsi] (RAMA_* values) for the cell centred at phi = −180 + (iPhi + ½)·step, likewise psi.
+ */
+export function ramaRegionGrid(
+  ref: Reference,
+  cls: RamaClass,
+): { stepDeg: number; size: number; codes: Uint8Array } {
+  const look = ref.rama[cls];
+  const { size, stepDeg } = look.grid;
+  const lv = look.table.levels;
+  const codes = new Uint8Array(size * size);
+  for (let i = 0; i < codes.length; i++) {
+    const ln = look.lnDensity[i];
+    codes[i] = ln >= lv.favored ? RAMA_FAVORED : ln >= lv.allowed ? RAMA_ALLOWED : RAMA_OUTLIER;
+  }
+  return { stepDeg, size, codes };
+}
