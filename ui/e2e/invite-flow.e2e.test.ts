@@ -40,6 +40,16 @@ const FORGETFUL: Person = {
   email: 'oskar.brine@saltmarsh-lab.example',
   password: 'firstPass-1111',
 };
+const PROMOTED: Person = {
+  name: 'Pell Arden',
+  email: 'pell.arden@saltmarsh-lab.example',
+  password: 'coiledCoil-5150',
+};
+const LEAVER: Person = {
+  name: 'Sable North',
+  email: 'sable.north@saltmarsh-lab.example',
+  password: 'turnMotif-6262',
+};
 // markup in a title must come back as literal text, never as HTML
 const TITLE = 'Crystal structure of the <b>Saltmarsh</b> lid protease & its inhibitor';
 const VIEWPORT = { width: 1280, height: 860 };
@@ -78,30 +88,35 @@ async function signIn(page: Page, who: Person, password = who.password): Promise
   await page.getByRole('button', { name: 'Sign in' }).click();
 }
 
-/**
- * The newest mail to `to` whose subject matches, opened in the admin's Outbox page; returns the
- * in-app href of its first link (what a person would click).
- */
-async function linkFromOutbox(to: string, subject: RegExp, screenshot?: string): Promise<string> {
+/** The admin's page, signed in once and reused. */
+async function adminSession(): Promise<Page> {
   if (!adminPage) {
     const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
     adminPage = await newPage(ctx);
     await adminPage.goto('/sign-in?next=%2Fadmin%2Foutbox');
     await signIn(adminPage, ADMIN);
     await adminPage.waitForURL(/\/admin\/outbox$/);
-  } else {
-    await adminPage.goto('/admin/outbox');
   }
-  const item = adminPage
+  return adminPage;
+}
+
+/**
+ * The newest mail to `to` whose subject matches, opened in the admin's Outbox page; returns the
+ * in-app href of its first link (what a person would click).
+ */
+async function linkFromOutbox(to: string, subject: RegExp, screenshot?: string): Promise<string> {
+  const page = await adminSession();
+  await page.goto('/admin/outbox');
+  const item = page
     .getByTestId('outbox-list')
     .locator('a', { hasText: to })
     .filter({ hasText: subject })
     .first();
   await item.click();
-  const message = adminPage.getByTestId('outbox-message');
+  const message = page.getByTestId('outbox-message');
   await message.getByText(to).first().waitFor();
   const href = await message.locator('.ff-message-links a').first().getAttribute('href');
-  if (screenshot) await shot(adminPage, screenshot);
+  if (screenshot) await shot(page, screenshot);
   if (!href) throw new Error(`The mail to ${to} shows no link.`);
   return href;
 }
@@ -359,11 +374,57 @@ test('password reset through the mailed link', async () => {
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL(/\/desk$/);
 
+  // signing out ends the session on the server too: a reload does not bring it back
+  await page.getByRole('button', { name: FORGETFUL.name }).click();
+  await page.getByRole('menuitem', { name: 'Sign out' }).click();
+  await page.waitForURL(/\/sign-in$/);
+  await page.goto('/desk');
+  await page.waitForURL(/\/sign-in\?next=%2Fdesk$/);
+
   // the link works once
   await page.goto(href);
   await page.getByLabel('New password').fill('thirdPass-3333');
   await page.getByLabel('Repeat it').fill('thirdPass-3333');
   await page.getByRole('button', { name: 'Set new password' }).click();
   await page.locator('.ff-problem').waitFor();
+  await ctx.close();
+}, 90_000);
+
+test('admin: the last admin cannot step down; promote someone; delete an account', async () => {
+  await registerViaApi(service.url, PROMOTED);
+  await registerViaApi(service.url, LEAVER);
+  const page = await adminSession();
+  await page.goto('/admin/users');
+  const users = page.getByTestId('users-table');
+  const rowOf = (who: Person) => users.locator('tbody tr', { hasText: who.email });
+  await rowOf(LEAVER).waitFor();
+
+  // stepping down as the only admin is refused with the service's sentence
+  await rowOf(ADMIN).getByRole('combobox').selectOption('user');
+  await page.getByText('is the last admin').waitFor();
+  await page.reload();
+  expect(await rowOf(ADMIN).getByRole('combobox').inputValue()).toBe('admin');
+
+  await rowOf(PROMOTED).getByRole('combobox').selectOption('admin');
+  await page.getByText(`${PROMOTED.name} now has the site role Admin.`).waitFor();
+  expect(await rowOf(PROMOTED).getByRole('combobox').inputValue()).toBe('admin');
+
+  await rowOf(LEAVER)
+    .getByRole('button', { name: `Delete the account of ${LEAVER.name}` })
+    .click();
+  await shot(page, '17-admin-delete-confirm');
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Delete account' }).click();
+  await page.getByText(`The account of ${LEAVER.name} has been deleted.`).waitFor();
+  await rowOf(LEAVER).waitFor({ state: 'detached' });
+  await shot(page, '18-admin-users');
+
+  // the promoted account now sees the Admin entry
+  const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+  const promoted = await newPage(ctx);
+  await promoted.goto('/sign-in');
+  await signIn(promoted, PROMOTED);
+  await promoted.waitForURL(/\/desk$/);
+  await promoted.locator('.ff-navbar').getByRole('link', { name: 'Admin' }).click();
+  await promoted.getByTestId('users-table').waitFor();
   await ctx.close();
 }, 90_000);

@@ -48,3 +48,12 @@ export function useOutboxMessage(id: string) {
     queryFn: () => api<MailMessageDto>(`/api/admin/outbox/${encodeURIComponent(id)}`),
   });
 }
+
+export function useDeleteUser() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) =>
+      api<void>(`/api/admin/users/${encodeURIComponent(id)}`, { method: 'DELETE' }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: adminKeys.users() }),
+  });
+}
