@@ -170,6 +170,29 @@ test('a withdrawn invitation and an unknown token are refused', async () => {
   expect(unknown.body.message).toMatch(/not valid.*ask the manuscript owner/);
 });
 
+test('inviting the same address again replaces the open invitation', async () => {
+  const owner = await register(t, 'Owner');
+  const id = await createManuscript(owner);
+  const email = `twice.${Date.now()}@lab.example`;
+  await invite(owner, id, email, 'reviewer').expect(201);
+  const firstToken = await invitationTokenFromOutbox(email);
+  await t.db.query('DELETE FROM mail_messages WHERE to_addrs = ?', [email]);
+  await invite(owner, id, email, 'editor').expect(201);
+  const secondToken = await invitationTokenFromOutbox(email);
+  expect(secondToken).not.toBe(firstToken);
+  await request(t.server).get(`/api/invitations/${firstToken}`).expect(410);
+  const preview = await request(t.server).get(`/api/invitations/${secondToken}`).expect(200);
+  expect(preview.body.role).toBe('editor');
+  const listed = await request(t.server)
+    .get(`/api/manuscripts/${id}/invitations`)
+    .set(auth(owner))
+    .expect(200);
+  expect(listed.body.map((i: { role: string; state: string }) => [i.role, i.state])).toEqual([
+    ['editor', 'pending'],
+    ['reviewer', 'revoked'],
+  ]);
+});
+
 test('inviting someone who is already a member is refused', async () => {
   const owner = await register(t, 'Owner');
   const id = await createManuscript(owner);

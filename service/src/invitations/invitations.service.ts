@@ -61,6 +61,11 @@ export class InvitationsService {
         `${email} is already a member of this manuscript. Change their role in the member list instead.`,
       );
     }
+    // Inviting the same address again replaces its open invitation: only the newest link works.
+    await this.invitations.update(
+      { manuscriptId, email, acceptedAt: IsNull(), revokedAt: IsNull() },
+      { revokedAt: new Date() },
+    );
     const token = newToken();
     const inv: Invitation = {
       id: newId(),
