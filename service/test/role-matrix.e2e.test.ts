@@ -26,6 +26,8 @@ interface Call {
   body?: Record<string, unknown>;
   /** a multipart upload instead of a JSON body */
   attach?: { field: string; bytes: Buffer; filename: string };
+  /** query-string parameters */
+  query?: Record<string, string>;
 }
 interface Entry {
   allowed: Role[];
@@ -194,7 +196,117 @@ const MATRIX: Record<string, Entry> = {
     },
   },
   'GET /api/manuscripts/:manuscriptId/package-audit': { allowed: ['owner'] },
+  // Templates, figures and the methods table (issue 5).
+  'GET /api/manuscripts/:manuscriptId/templates': { allowed: ALL },
+  'GET /api/manuscripts/:manuscriptId/templates/diff': {
+    allowed: ALL,
+    prepare: () => ({ query: { from: 'builtin:torsion-plot@1', to: 'builtin:torsion-plot@1' } }),
+  },
+  'GET /api/manuscripts/:manuscriptId/templates/:templateId': {
+    allowed: ALL,
+    prepare: () => ({ params: { templateId: 'builtin:omega-histogram' } }),
+  },
+  'GET /api/manuscripts/:manuscriptId/templates/:templateId/versions/:n': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({ params: { templateId: await seedTemplate(t, fx), n: '1' } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/templates': {
+    allowed: ['owner', 'editor'],
+    prepare: () => ({ body: { from: 'builtin:geometry-z@1', scope: 'manuscript', name: 'Z' } }),
+  },
+  'POST /api/manuscripts/:manuscriptId/templates/:templateId/versions': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({
+      params: { templateId: await seedTemplate(t, fx) },
+      body: { body: '{"mark": "point"}', message: 'Matrix save' },
+    }),
+  },
+  'POST /api/manuscripts/:manuscriptId/templates/preview': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({
+      body: {
+        key: 'methods-xray',
+        body: '<table><tbody><tr><td>{{val "rFree" d=3}}</td></tr></tbody></table>',
+        modelVersionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/template-pins': { allowed: ALL },
+  'PUT /api/manuscripts/:manuscriptId/template-pins/:key': {
+    allowed: ['owner', 'editor'],
+    prepare: () => ({
+      params: { key: 'torsion-plot' },
+      body: { version: 'builtin:torsion-plot@1' },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/figures': { allowed: ALL },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/figures/:key': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+        key: 'omega-histogram',
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/figures/:key/export': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+        key: 'omega-histogram',
+      },
+      query: { format: 'svg' },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/methods-table': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/methods-table/export': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+      query: { format: 'csv' },
+    }),
+  },
+  'GET /api/manuscripts/:manuscriptId/models/:versionId/methods-form': {
+    allowed: ALL,
+    prepare: async (fx, t) => ({ params: { versionId: await seedVersionRow(t, fx) } }),
+  },
+  'PUT /api/manuscripts/:manuscriptId/models/:versionId/methods-form': {
+    allowed: ['owner', 'editor'],
+    prepare: async (fx, t) => ({
+      params: {
+        versionId: (await seedVersion(t, fx.manuscriptId, fx.users.owner.id, '1A8O.cif')).id,
+      },
+      body: { values: { rFree: 0.25 } },
+    }),
+  },
 };
+
+/** A manuscript template with one version (a minimal figure spec), inserted directly. */
+async function seedTemplate(t: TestApp, fx: Fixture): Promise<string> {
+  const id = randomUUID();
+  await t.db.query(
+    `INSERT INTO templates (id, kind, template_key, name, scope, manuscript_id, forked_from, created_by)
+     VALUES (?, 'figure', 'omega-histogram', 'Matrix', 'manuscript', ?, 'builtin:omega-histogram@1', ?)`,
+    [id, fx.manuscriptId, fx.users.owner.id],
+  );
+  const body = '{"mark": "bar"}';
+  await t.db.query(
+    `INSERT INTO template_versions (template_id, n, body, sha256, author_id, author_name, message)
+     VALUES (?, 1, ?, ?, ?, 'Owner', 'seed')`,
+    [id, body, createHash('sha256').update(body).digest('hex'), fx.users.owner.id],
+  );
+  return id;
+}
 
 /** A model version row (no file or analysis needed: the package job never runs here). */
 async function seedVersionRow(t: TestApp, fx: Fixture): Promise<string> {
@@ -317,6 +429,7 @@ describe.each(Object.keys(MATRIX))('%s', (route) => {
       actor === 'anonymous' ? null : actor === 'non-member' ? users.outsider : users[actor];
     if (account) req = req.set('Authorization', `Bearer ${account.token}`);
     if (call.attach) req = req.attach(call.attach.field, call.attach.bytes, call.attach.filename);
+    if (call.query) req = req.query(call.query);
     const res = await (call.body ? req.send(call.body) : req);
 
     const expected =
