@@ -13,5 +13,6 @@ import { InvitationsService } from './invitations.service.js';
   imports: [TypeOrmModule.forFeature([Invitation]), ManuscriptsModule, MailModule],
   controllers: [ManuscriptInvitationsController, InvitationsController],
   providers: [InvitationsService],
+  exports: [InvitationsService],
 })
 export class InvitationsModule {}

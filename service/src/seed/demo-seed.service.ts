@@ -7,6 +7,7 @@ import { APP_CONFIG, type AppConfig } from '../config/app-config.js';
 import { newId } from '../common/tokens.js';
 import { Manuscript } from '../manuscripts/manuscript.entity.js';
 import { Membership } from '../manuscripts/membership.entity.js';
+import { InvitationsService } from '../invitations/invitations.service.js';
 import { User } from '../users/user.entity.js';
 
 /** Invented lab and people (no real names); the password is for a local demo only. */
@@ -37,6 +38,8 @@ export const DEMO_PEOPLE: ReadonlyArray<{
     role: 'commenter',
   },
 ];
+/** Invited (by e-mail, not yet accepted) so the Outbox and the invitation page have something. */
+export const DEMO_INVITEE = 'dara.whitlock@tarnwick.example';
 export const DEMO_TITLE =
   'Crystal structure of FdrQ, an invented flavin reductase from the Tarnwick hot-spring metagenome';
 
@@ -48,9 +51,12 @@ export class DemoSeedService {
   constructor(
     @Inject(APP_CONFIG) private readonly cfg: AppConfig,
     @InjectDataSource() private readonly db: DataSource,
+    private readonly invitations: InvitationsService,
   ) {}
 
   async seed(): Promise<void> {
+    let newManuscript: string | null = null;
+    let ownerId = '';
     const created = await this.db.transaction(async (m) => {
       // Serialise concurrent seeders on one named lock (two `npm start`s at once).
       await m.query("SELECT GET_LOCK('foldfolio_demo_seed', 30)");
@@ -76,6 +82,7 @@ export class DemoSeedService {
           added++;
         }
         const owner = ids[0];
+        ownerId = owner;
         const has: Array<{ id: string }> = await m.query(
           'SELECT ms.id FROM manuscripts ms JOIN memberships mb ON mb.manuscript_id = ms.id WHERE ms.title = ? AND mb.user_id = ? LIMIT 1',
           [DEMO_TITLE, owner],
@@ -98,12 +105,17 @@ export class DemoSeedService {
             });
           }
           added++;
+          newManuscript = msId;
         }
         return added;
       } finally {
         await m.query("SELECT RELEASE_LOCK('foldfolio_demo_seed')");
       }
     });
+    if (newManuscript) {
+      const owner = await this.db.manager.findOneByOrFail(User, { id: ownerId });
+      await this.invitations.invite(newManuscript, owner, DEMO_INVITEE, 'reviewer');
+    }
     this.log.log(
       created > 0
         ? `demo data seeded (${DEMO_LAB}; sign in as ${DEMO_PEOPLE[0].email} / ${DEMO_PASSWORD})`
