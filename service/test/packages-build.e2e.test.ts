@@ -10,7 +10,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import yazl from 'yazl';
 import { sharedVegaHost } from '../src/figures/vega-host.js';
-import { buildPackage, type BuiltPackage } from '../src/packages/build.js';
+import { buildPackage, builtinTemplateSet, type BuiltPackage } from '../src/packages/build.js';
 import { verifyPackage } from '../src/packages/verify.js';
 import { readZip, writeZip, ZipSafetyError } from '../src/packages/zip.js';
 import { fixture, REPO } from './helpers/workflow.js';
@@ -166,7 +166,10 @@ test('a changed model: verify reports every file that depends on it', async () =
   const dependent = manifest.files
     .filter((f) => f.dependsOn.includes('model:v1'))
     .map((f) => f.path);
-  expect(dependent.length).toBe(manifest.files.length); // every file is computed from the model
+  // every file but the template copies is computed from the model; the templates stay identical
+  const templates = manifest.files.filter((f) => f.path.startsWith('templates/'));
+  expect(templates.length).toBeGreaterThan(0);
+  expect(dependent.length).toBe(manifest.files.length - templates.length);
   const byPath = new Map(r.files.map((f) => [f.path, f]));
   for (const p of dependent) expect(byPath.get(p)?.changedInputs).toContain('model:v1');
   // files whose content must move when a CA moves 2 Å: the model, torsions, the per-residue table
@@ -178,6 +181,8 @@ test('a changed model: verify reports every file that depends on it', async () =
     'manifest.json',
   ])
     expect(byPath.get(p)?.status).toBe('different');
+  for (const f of templates)
+    expect(byPath.get(f.path)).toEqual({ path: f.path, status: 'identical' });
   expect(byPath.get('v1/report.json')!.detail).toMatch(/line\(s\) differ; first at line \d+/);
 }, 60000);
 
@@ -189,6 +194,42 @@ test('a package without the model file cannot be recomputed until the model is s
   expect(r.files.find((f) => f.path === 'model/v1.cif')?.status).toBe('missing');
   expect(r.counts['not-recomputed']).toBe(first.files.size - 2);
 });
+
+test('verify recomputes with the template versions inside the package, not the installed ones', async () => {
+  // a lab's edited torsion template (another title, so another caption) that is not installed here
+  const set = builtinTemplateSet();
+  const folder = new Map(set.figures.get('torsion-plot')!);
+  const manifest = JSON.parse(folder.get('manifest.json')!.toString('utf8')) as {
+    title: string;
+    version: number;
+  };
+  folder.set(
+    'manifest.json',
+    Buffer.from(
+      JSON.stringify({ ...manifest, title: 'Backbone torsions (lab edit)', version: 7 }, null, 2),
+    ),
+  );
+  set.figures.set('torsion-plot', folder);
+  const pkg = await buildPackage({
+    title: 'Invented capsid domain',
+    models: [{ n: 1, filename: '1A8O.cif', bytes: MODEL }],
+    includeModel: true,
+    anonymise: true,
+    templates: set,
+  });
+  const files = await readZip(pkg.zip);
+  expect(files.get('templates/figures/torsion-plot/manifest.json')!.toString('utf8')).toContain(
+    'lab edit',
+  );
+  expect(
+    files
+      .get('v1/figures/torsion-plot.svg')!
+      .equals(first.files.get('v1/figures/torsion-plot.svg')!),
+  ).toBe(false);
+  const r = await verifyPackage(pkg.zip);
+  expect(r.files.filter((f) => f.status !== 'identical')).toEqual([]);
+  expect(r.ok).toBe(true);
+}, 60000);
 
 /** A zip whose entry name is patched after writing (yazl itself refuses unsafe names). */
 async function zipWithName(safe: string, evil: string, mode?: number): Promise<Buffer> {

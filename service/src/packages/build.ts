@@ -11,17 +11,25 @@ import { buildReport, ENGINE_VERSION, type Report, type ResidueRow } from '@fold
 import { nodeGunzip } from '@foldfolio/shared/dist/cli/node-gunzip.js';
 import { svgToPdf } from '../figures/export.js';
 import { renderFigure } from '../figures/render.js';
-import { listFigureTemplates, loadPreset, templatesRoot } from '../figures/templates.js';
+import {
+  listFigureTemplates,
+  loadPreset,
+  templatesRoot,
+  type FigureTemplate,
+} from '../figures/templates.js';
+import type { FigureManifest } from '../figures/types.js';
 import { experimentFromBytes } from '../tables/cli.js';
 import {
   defaultTableFor,
-  loadTableTemplate,
+  listTableTemplates,
   renderTableHtml,
   toCsv,
   toDocx,
   toHtmlDocument,
   toLatex,
   toMarkdown,
+  type TableManifest,
+  type TableTemplate,
 } from '../tables/render.js';
 import { readZip, writeZip, ZIP_SETTINGS } from './zip.js';
 
@@ -51,10 +59,12 @@ export interface PackageInput {
    */
   forbiddenTexts?: string[];
   onProgress?: (fraction: number, step: string) => void;
+  /** templates to draw with (verify passes the ones inside the package); default: built-in */
+  templates?: TemplateSet;
 }
 
 export type FileKind =
-  'readme' | 'model' | 'report' | 'residues' | 'figure' | 'figure-data' | 'table';
+  'readme' | 'model' | 'report' | 'residues' | 'figure' | 'figure-data' | 'table' | 'template';
 
 export interface ManifestFile {
   path: string;
@@ -109,50 +119,76 @@ export class PackageBuildError extends Error {
 
 export const sha256 = (b: Buffer | string): string => createHash('sha256').update(b).digest('hex');
 
+/** Files of one template folder (name → bytes), e.g. manifest.json + spec.vl.json. */
+export type TemplateFolder = Map<string, Buffer>;
+
+/** The figure and table templates a package is built with, by id. */
+export interface TemplateSet {
+  figures: Map<string, TemplateFolder>;
+  tables: Map<string, TemplateFolder>;
+}
+
 /** sha256 over every file of a template folder, in name order: name NUL bytes NUL. */
-function folderSha(dir: string): string {
+export function folderSha(files: TemplateFolder): string {
   const h = createHash('sha256');
-  for (const f of readdirSync(dir).sort()) {
-    h.update(f)
-      .update('\0')
-      .update(readFileSync(join(dir, f)))
-      .update('\0');
-  }
+  for (const f of [...files.keys()].sort())
+    h.update(f).update('\0').update(files.get(f)!).update('\0');
   return h.digest('hex');
 }
 
-/** Built-in template and preset fingerprints as recorded in (and checked from) a manifest. */
-export function templateInputs(): ManifestInput[] {
+function readFolder(dir: string): TemplateFolder {
+  return new Map(
+    readdirSync(dir)
+      .sort()
+      .map((f) => [f, readFileSync(join(dir, f))]),
+  );
+}
+
+/** The built-in templates of this checkout (templates/figures, templates/tables). */
+export function builtinTemplateSet(): TemplateSet {
   const root = templatesRoot();
-  const out: ManifestInput[] = [];
-  for (const t of listFigureTemplates()) {
-    out.push({
-      key: `figure-template:${t.manifest.id}`,
-      kind: 'figure-template',
-      id: t.manifest.id,
-      version: String(t.manifest.version),
-      sha256: folderSha(join(root, 'figures', t.manifest.id)),
-    });
-  }
-  for (const id of ['methods-em', 'methods-nmr', 'methods-xray']) {
-    const t = loadTableTemplate(id);
-    out.push({
-      key: `table-template:${id}`,
-      kind: 'table-template',
-      id,
-      version: String(t.manifest.version),
-      sha256: folderSha(join(root, 'tables', id)),
-    });
-  }
+  const figures = new Map<string, TemplateFolder>();
+  const tables = new Map<string, TemplateFolder>();
+  for (const t of listFigureTemplates())
+    figures.set(t.manifest.id, readFolder(join(root, 'figures', t.manifest.id)));
+  for (const t of listTableTemplates())
+    tables.set(t.manifest.id, readFolder(join(root, 'tables', t.manifest.id)));
+  return { figures, tables };
+}
+
+function need(folder: TemplateFolder, file: string, what: string): string {
+  const b = folder.get(file);
+  if (!b)
+    throw new PackageBuildError(
+      `The ${what} template has no ${file}; the package or template folder is incomplete.`,
+    );
+  return b.toString('utf8');
+}
+
+export function figureTemplateOf(id: string, folder: TemplateFolder): FigureTemplate {
+  return {
+    manifest: JSON.parse(need(folder, 'manifest.json', `figure ${id}`)) as FigureManifest,
+    specText: need(folder, 'spec.vl.json', `figure ${id}`),
+  };
+}
+
+export function tableTemplateOf(id: string, folder: TemplateFolder): TableTemplate {
+  return {
+    manifest: JSON.parse(need(folder, 'manifest.json', `table ${id}`)) as TableManifest,
+    source: need(folder, 'template.hbs', `table ${id}`),
+  };
+}
+
+/** The preset's fingerprint (figures are drawn with the installed preset; verify compares it). */
+export function presetInput(): ManifestInput {
   const preset = loadPreset(PACKAGE_PRESET);
-  out.push({
+  return {
     key: `preset:${preset.id}`,
     kind: 'preset',
     id: preset.id,
     version: String(preset.version),
-    sha256: sha256(readFileSync(join(root, 'presets', `${preset.id}.json`))),
-  });
-  return out;
+    sha256: sha256(readFileSync(join(templatesRoot(), 'presets', `${preset.id}.json`))),
+  };
 }
 
 const EXT: Record<string, string> = { mmcif: 'cif', bcif: 'bcif', pdb: 'pdb' };
@@ -342,8 +378,10 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
   if (new Set(models.map((m) => m.n)).size !== models.length)
     throw new PackageBuildError('Each model version can be chosen once; remove the duplicate.');
   const progress = input.onProgress ?? (() => undefined);
-  const templates = templateInputs();
-  const figureTemplates = listFigureTemplates();
+  const set = input.templates ?? builtinTemplateSet();
+  const figureTemplates = [...set.figures.keys()]
+    .sort()
+    .map((id) => figureTemplateOf(id, set.figures.get(id)!));
   const steps = models.length * (2 + figureTemplates.length) + 2;
   let step = 0;
   const tick = (what: string) => progress(Math.min(0.99, ++step / steps), what);
@@ -415,6 +453,7 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
         report,
         previous,
         templateId: id,
+        template: t,
         presetId: PACKAGE_PRESET,
       });
       const deps = [key, `figure-template:${id}`, `preset:${PACKAGE_PRESET}`, 'engine'];
@@ -455,7 +494,16 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
     }
     const experiment = await experimentFromBytes(new Uint8Array(m.bytes));
     const tableId = defaultTableFor(report.method ?? experiment.method);
-    const table = renderTableHtml({ report, experiment, templateId: tableId });
+    const tableFolder = set.tables.get(tableId);
+    if (!tableFolder)
+      throw new PackageBuildError(
+        `The methods table template "${tableId}" is not available; add it to the templates folder (or the package).`,
+      );
+    const table = renderTableHtml({
+      report,
+      experiment,
+      template: tableTemplateOf(tableId, tableFolder),
+    });
     const tdeps = [key, `table-template:${tableId}`, 'engine'];
     const tstem = `${dir}/tables/${tableId}`;
     const tdesc = `the methods table (${tableId})`;
@@ -507,9 +555,43 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
       version: ref.id,
       sha256: ref.sha256,
     });
+  // the templates used travel inside the package, so verify recomputes with exactly them
   const used = new Set(entries.flatMap((e) => e.dependsOn));
-  inputs.push(...templates.filter((t) => used.has(t.key)));
-  for (const e of entries) if (e.kind !== 'model' && ref) e.dependsOn.push('reference');
+  const templateEntries: typeof entries = [];
+  for (const [kind, map] of [
+    ['figure', set.figures],
+    ['table', set.tables],
+  ] as const) {
+    for (const id of [...map.keys()].sort()) {
+      const key = `${kind}-template:${id}`;
+      if (!used.has(key)) continue;
+      const folder = map.get(id)!;
+      const dirPath = `templates/${kind === 'figure' ? 'figures' : 'tables'}/${id}/`;
+      const manifest = JSON.parse(folder.get('manifest.json')?.toString('utf8') ?? '{}') as {
+        version?: number;
+      };
+      inputs.push({
+        key,
+        kind: `${kind}-template`,
+        id,
+        version: String(manifest.version ?? '?'),
+        sha256: folderSha(folder),
+        path: dirPath,
+      });
+      for (const [f, bytes] of folder)
+        templateEntries.push({
+          path: dirPath + f,
+          kind: 'template',
+          bytes,
+          dependsOn: [key],
+          description: `the ${kind} template "${id}" as used (${f}).`,
+        });
+    }
+  }
+  if (used.has(`preset:${PACKAGE_PRESET}`)) inputs.push(presetInput());
+  entries.push(...templateEntries);
+  for (const e of entries)
+    if (e.kind !== 'model' && e.kind !== 'template' && ref) e.dependsOn.push('reference');
 
   const head: Omit<Manifest, 'files'> = {
     schema: PACKAGE_SCHEMA,

@@ -7,7 +7,11 @@ import {
   buildPackage,
   PACKAGE_SCHEMA,
   sha256,
-  templateInputs,
+  builtinTemplateSet,
+  folderSha,
+  presetInput,
+  type TemplateFolder,
+  type TemplateSet,
   type Manifest,
   type PackageModelInput,
 } from './build.js';
@@ -127,17 +131,48 @@ export async function verifyPackage(
   // 2. inputs: model(s) and templates as recorded
   const inputNotes: string[] = [];
   const changed = new Set<string>();
-  const current = new Map(templateInputs().map((t) => [t.key, t]));
   const stale = new Set<string>();
+  // templates: the ones inside the package (recorded versions), else the built-in ones when
+  // they are byte-identical to what was recorded
+  const builtin = builtinTemplateSet();
+  const set: TemplateSet = { figures: new Map(), tables: new Map() };
   for (const i of manifest.inputs) {
-    if (i.kind === 'figure-template' || i.kind === 'table-template' || i.kind === 'preset') {
-      const c = current.get(i.key);
-      if (!c || c.version !== i.version || c.sha256 !== i.sha256) {
-        stale.add(i.key);
+    if (i.kind !== 'figure-template' && i.kind !== 'table-template') continue;
+    const target = i.kind === 'figure-template' ? set.figures : set.tables;
+    let folder: TemplateFolder | undefined;
+    if (i.path) {
+      folder = new Map();
+      for (const [p, b] of entries)
+        if (p.startsWith(i.path) && !p.slice(i.path.length).includes('/'))
+          folder.set(p.slice(i.path.length), b);
+      if (folder.size === 0) folder = undefined;
+      else if (folderSha(folder) !== i.sha256) {
+        changed.add(i.key);
         inputNotes.push(
-          `${i.kind} ${i.id} version ${i.version} is not available here (${c ? `this Foldfolio has version ${c.version}` : 'unknown template'}); files made with it cannot be recomputed.`,
+          `The ${i.kind} ${i.id} inside the package is not the one recorded in manifest.json; files drawn with it are recomputed with the changed copy.`,
         );
       }
+    }
+    if (!folder) {
+      const b = (i.kind === 'figure-template' ? builtin.figures : builtin.tables).get(i.id);
+      if (b && folderSha(b) === i.sha256) folder = b;
+    }
+    if (!folder) {
+      stale.add(i.key);
+      inputNotes.push(
+        `${i.kind} ${i.id} version ${i.version} is neither in the package nor installed here; files made with it cannot be recomputed.`,
+      );
+      continue;
+    }
+    target.set(i.id, folder);
+  }
+  const preset = presetInput();
+  for (const i of manifest.inputs.filter((x) => x.kind === 'preset')) {
+    if (i.key !== preset.key || i.sha256 !== preset.sha256) {
+      stale.add(i.key);
+      inputNotes.push(
+        `The figure preset ${i.id} version ${i.version} differs from this Foldfolio's (version ${preset.version}); figures cannot be recomputed byte for byte.`,
+      );
     }
   }
   const models: PackageModelInput[] = [];
@@ -171,6 +206,7 @@ export async function verifyPackage(
       includeModel: manifest.includesModel,
       anonymise: manifest.anonymised,
       preparedBy: manifest.preparedBy,
+      templates: set,
     });
     const deps = new Map(manifest.files.map((f) => [f.path, f.dependsOn]));
     const all = new Set([...rebuilt.files.keys(), ...manifest.files.map((f) => f.path)]);
@@ -185,6 +221,15 @@ export async function verifyPackage(
       if (prior && prior.status === 'missing') continue;
       const pkg = entries.get(p);
       const fresh = rebuilt.files.get(p);
+      if (!fresh && staleInputs.length && !prior) {
+        results.set(p, {
+          path: p,
+          status: 'not-recomputed',
+          detail: `made with ${staleInputs.join(', ')}, which is neither in the package nor installed here.`,
+          ...extra,
+        });
+        continue;
+      }
       if (!fresh) {
         if (!prior)
           results.set(p, {

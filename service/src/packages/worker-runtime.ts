@@ -64,10 +64,10 @@ export async function processPackage(
     title: string;
   }[];
   const people = (await db.query(
-    `SELECT u.display_name, u.email FROM memberships m JOIN users u ON u.id = m.user_id
+    `SELECT u.display_name, u.email, m.role FROM memberships m JOIN users u ON u.id = m.user_id
      WHERE m.manuscript_id = ? ORDER BY m.role = 'owner' DESC, m.created_at, u.id`,
     [manuscriptId],
-  )) as { display_name: string; email: string }[];
+  )) as { display_name: string; email: string; role: string }[];
   const comments = (await db.query('SELECT body_md FROM comments WHERE manuscript_id = ?', [
     manuscriptId,
   ])) as { body_md: string }[];
@@ -96,7 +96,10 @@ export async function processPackage(
       models,
       includeModel: !!pkg.include_model,
       anonymise: !!pkg.anonymised,
-      preparedBy: people.map((p) => p.display_name),
+      // authors: owners and editors (commenters and reviewers are not named as preparers)
+      preparedBy: people
+        .filter((p) => p.role === 'owner' || p.role === 'editor')
+        .map((p) => p.display_name),
       // member names and e-mails, and each line of every comment (a whole multi-line body
       // would only be caught verbatim)
       forbiddenTexts: [
