@@ -323,6 +323,15 @@ describe('readiness check names the offending element', () => {
     ).toBeGreaterThan(40);
   });
 
+  test('a saturated colour of our own in a data mark is checked too, and named', () => {
+    // residues in a yellow-green beside the vermilion outliers: a red–green confusion pair
+    const svg = torsion['2OFG.cif'].svg.replace(/#1F2A44/g, '#66AA00');
+    const issues = checkReadiness(svg, preset).issues.filter((i) => i.check === 'palette');
+    expect(issues.length).toBeGreaterThan(0);
+    expect(issues.map((i) => i.element)).toContain('#66AA00 / #D55E00');
+    expect(issues[0].message).toMatch(/deuteranopia|protanopia/);
+  });
+
   test('the colours the figures use from the Okabe–Ito palette (Okabe & Ito 2008) stay apart', () => {
     const p = preset.palette;
     expect(

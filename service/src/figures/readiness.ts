@@ -107,6 +107,13 @@ export function simulate(
   return labOfLinear(m.map((row) => row[0] * lin[0] + row[1] * lin[1] + row[2] * lin[2]));
 }
 
+/** CIE C*ab of a hex colour (0 for anything that is not #rgb/#rrggbb). */
+export function chroma(hex: string): number {
+  if (!parseHex(hex)) return 0;
+  const [, a, b] = simulate(hex, 'normal');
+  return Math.hypot(a, b);
+}
+
 export function deltaE(a: [number, number, number], b: [number, number, number]): number {
   return Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2]);
 }
@@ -178,7 +185,15 @@ export function checkReadiness(svg: string, preset: Preset): ReadinessResult {
     if (el.type !== 'tag') return;
     const at = { ...el.attribs, ...styleMap(el.attribs?.style) };
     const cur: Record<string, string> = { ...inh };
-    for (const k of ['font-size', 'stroke', 'stroke-width', 'fill', 'stroke-opacity', 'opacity'])
+    for (const k of [
+      'font-size',
+      'stroke',
+      'stroke-width',
+      'fill',
+      'stroke-opacity',
+      'fill-opacity',
+      'opacity',
+    ])
       if (at[k] !== undefined) cur[k] = at[k];
     const cls = el.attribs?.class ?? '';
     const nameMatch = /role-mark\s+(\S+)/.exec(cls) ?? /role-(axis|legend|title|frame)/.exec(cls);
@@ -220,12 +235,16 @@ export function checkReadiness(svg: string, preset: Preset): ReadinessResult {
         }
       }
     }
-    if (here !== mark || /role-mark/.test(inh.__mark ?? '')) {
-      // colours of data marks only (axes, grid and reference tones are neutral by design)
-    }
+    // colours that carry meaning: the preset's categorical palette and ink anywhere, and any
+    // saturated colour (CIE chroma > 20) a data mark uses; axes, grid and the pale reference
+    // tones are neutral by design
     if (el.name === 'path' || el.name === 'rect' || el.name === 'line' || el.name === 'circle') {
-      for (const c of [cur.fill, cur.stroke])
-        if (c && categorical.has(c.toUpperCase())) colours.add(c.toUpperCase());
+      const invisible = cur.opacity === '0' || cur['fill-opacity'] === '0';
+      for (const c of invisible ? [] : [cur.fill, cur.stroke]) {
+        if (!c) continue;
+        const up = c.toUpperCase();
+        if (categorical.has(up) || (/_marks$/.test(here) && chroma(up) > 20)) colours.add(up);
+      }
     }
     for (const ch of el.children ?? []) walk(ch, cur, here);
   };
