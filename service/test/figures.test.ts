@@ -84,6 +84,17 @@ describe('torsion-angle figure', () => {
     }
   });
 
+  test('fonts are embedded and Greek letters are set in the Greek subset of Noto Serif', () => {
+    const svg = torsion['1A8O.cif'].svg;
+    for (const fam of ['Merriweather', 'Noto Serif', 'Noto Serif Greek'])
+      expect(svg).toContain(`@font-face{font-family:"${fam}";src:url(data:font/woff;base64,`);
+    // every φ/ψ sits in a run whose font has Greek glyphs
+    const greek = [...svg.matchAll(/<tspan font-family="([^"]+)">([^<]*[φψ][^<]*)<\/tspan>/g)];
+    expect(greek.length).toBeGreaterThanOrEqual(2);
+    for (const m of greek) expect(m[1]).toBe('Noto Serif Greek');
+    expect(svg).not.toMatch(/font-family="(Merriweather|Noto Serif)"[^>]*>[^<]*[φψ]/);
+  });
+
   test('outliers are open diamonds labelled "chain number name"', () => {
     for (const [f, fig] of Object.entries(torsion)) {
       const many = reports[f].models.length > 1;
