@@ -33,6 +33,7 @@ const BAR_LINEAR = 1 / 8;
 
 interface GemmiResult {
   seconds: number;
+  cpu: number;
   files: number;
   residues: number;
   phiDefined: number;
@@ -49,8 +50,9 @@ function gemmi(files: string[], dir: string): GemmiResult {
 /** Read + phi/psi/omega of every model of every file; returns seconds and torsion counts. */
 async function ours(
   files: string[],
-): Promise<{ seconds: number; residues: number; phiDefined: number }> {
+): Promise<{ seconds: number; cpu: number; residues: number; phiDefined: number }> {
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   let residues = 0;
   let phiDefined = 0;
   for (const f of files) {
@@ -62,7 +64,13 @@ async function ours(
       for (let k = 0; k < t.count; k++) if (!Number.isNaN(tor.phi[k])) phiDefined++;
     }
   }
-  return { seconds: (performance.now() - t0) / 1000, residues, phiDefined };
+  const c = process.cpuUsage(c0);
+  return {
+    seconds: (performance.now() - t0) / 1000,
+    cpu: (c.user + c.system) / 1e6,
+    residues,
+    phiDefined,
+  };
 }
 
 function fmt(s: number): string {
@@ -118,24 +126,28 @@ async function main(): Promise<void> {
       await ours(files.slice(0, 20)); // warm-up (JIT), not timed
       // Interleave ours and gemmi over 10 batches so both see the same machine load (other
       // processes on a shared 2-core machine swing single-run timings by 2-3×).
-      const a = { seconds: 0, residues: 0, phiDefined: 0 };
-      const g = { seconds: 0, files: 0, residues: 0, phiDefined: 0 };
+      const a = { seconds: 0, cpu: 0, residues: 0, phiDefined: 0 };
+      const g = { seconds: 0, cpu: 0, files: 0, residues: 0, phiDefined: 0 };
       const batch = Math.ceil(files.length / 10);
       for (let i = 0; i < files.length; i += batch) {
         const part = files.slice(i, i + batch);
         const x = await ours(part);
         const y = gemmi(part, work);
         a.seconds += x.seconds;
+        a.cpu += x.cpu;
         a.residues += x.residues;
         a.phiDefined += x.phiDefined;
         g.seconds += y.seconds;
+        g.cpu += y.cpu;
         g.files += y.files;
         g.residues += y.residues;
         g.phiDefined += y.phiDefined;
       }
-      const ratio = a.seconds / g.seconds;
+      // the bar is judged on CPU time (process CPU, ours and gemmi's): wall time on a machine
+      // shared with other jobs swings 2-3×; wall times are printed too
+      const ratio = a.cpu / g.cpu;
       console.log(
-        `  read + phi/psi/omega   foldfolio ${fmt(a.seconds)}   gemmi ${fmt(g.seconds)}   ratio ${ratio.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×, aim ≤ ${AIM_RATIO}×) ${verdict(ratio <= BAR_RATIO)}`,
+        `  read + phi/psi/omega   CPU foldfolio ${fmt(a.cpu)}   gemmi ${fmt(g.cpu)}   ratio ${ratio.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×, aim ≤ ${AIM_RATIO}×) ${verdict(ratio <= BAR_RATIO)}   [wall ${fmt(a.seconds)} vs ${fmt(g.seconds)}]`,
       );
       console.log(
         `  residues ${a.residues} (gemmi ${g.residues}); phi defined ${a.phiDefined} (gemmi, no break test: ${g.phiDefined})`,
@@ -158,9 +170,9 @@ async function main(): Promise<void> {
     await ours([smallFile]); // warm-up (JIT) on the small model, not timed
     const b = await ours([bigFile]);
     const gb = gemmi([bigFile], work);
-    const rb = b.seconds / gb.seconds;
+    const rb = b.cpu / gb.cpu;
     console.log(
-      `  read + phi/psi/omega   foldfolio ${fmt(b.seconds)}   gemmi ${fmt(gb.seconds)}   ratio ${rb.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×) ${verdict(rb <= BAR_RATIO)}`,
+      `  read + phi/psi/omega   CPU foldfolio ${fmt(b.cpu)}   gemmi ${fmt(gb.cpu)}   ratio ${rb.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×) ${verdict(rb <= BAR_RATIO)}   [wall ${fmt(b.seconds)} vs ${fmt(gb.seconds)}]`,
     );
     if (rb > BAR_RATIO) failures++;
     const full = child(bigFile);

@@ -273,6 +273,9 @@ export class StructureBuilder {
       modified: new Uint8Array(nr),
     };
     const parentCache = new Map<number, number>();
+    const kindCache = new Map<number, ResidueKind>();
+    // parents interned below only add names; keys use the count before them (names are older)
+    const stringCount = this.strings.length + 1;
     const isHydrogen = new Uint8Array(this.strings.length);
     this.strings.forEach((v, i) => (isHydrogen[i] = v === 'H' || v === 'D' ? 1 : 0));
     for (let r = 0; r < nr; r++) {
@@ -296,14 +299,21 @@ export class StructureBuilder {
       residues.labelAsym[r] = this.chainLabel[s];
       let heavy = 0;
       for (let i = s; i < e; i++) if (isHydrogen[this.element[i]] === 0) heavy++;
-      const ent = entityById.get(this.strings[this.entity[s]]);
-      residues.kind[r] = classifyResidue(
-        this.strings[nameIdx],
-        this.strings[parentIdx],
-        ent?.type,
-        ent?.polymerType,
-        heavy,
-      );
+      // the kind depends on name, entity and whether the residue is monoatomic: cache on those
+      const kindKey = (this.entity[s] * stringCount + nameIdx) * 2 + (heavy <= 1 ? 1 : 0);
+      let kind = kindCache.get(kindKey);
+      if (kind === undefined) {
+        const ent = entityById.get(this.strings[this.entity[s]]);
+        kind = classifyResidue(
+          this.strings[nameIdx],
+          this.strings[parentIdx],
+          ent?.type,
+          ent?.polymerType,
+          heavy,
+        );
+        kindCache.set(kindKey, kind);
+      }
+      residues.kind[r] = kind;
     }
     this.promoteLinkedAminoAcids(atoms, residues, a0);
     // chain boundaries: contiguous runs of one auth chain id

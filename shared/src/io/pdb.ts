@@ -71,6 +71,32 @@ function fieldFloat(buf: Uint8Array, s: number, e: number, lineEnd: number): num
   return neg ? -v : v;
 }
 
+/**
+ * The common coordinate layout "%8.3f" (decimal point in the field's fifth column, wwPDB format
+ * 3.3): integer part and three decimals read at fixed places. NaN when the field differs (the
+ * caller then uses the general fieldFloat).
+ */
+function fixed83(buf: Uint8Array, s: number): number {
+  const f0 = buf[s + 5] - 48;
+  const f1 = buf[s + 6] - 48;
+  const f2 = buf[s + 7] - 48;
+  if (buf[s + 4] !== 46 || f0 < 0 || f0 > 9 || f1 < 0 || f1 > 9 || f2 < 0 || f2 > 9) return NaN;
+  let v = 0;
+  let neg = false;
+  let digits = 0;
+  for (let i = s; i < s + 4; i++) {
+    const c = buf[i];
+    if (c >= 48 && c <= 57) {
+      v = v * 10 + (c - 48);
+      digits++;
+    } else if (c === 45 && digits === 0 && !neg) neg = true;
+    else if (c !== SP || digits > 0 || neg) return NaN;
+  }
+  if (digits === 0) return NaN;
+  const r = (v * 1000 + f0 * 100 + f1 * 10 + f2) / 1000;
+  return neg ? -r : r;
+}
+
 /** Integer in a fixed field; NaN when blank or malformed. */
 function fieldInt(buf: Uint8Array, s: number, e: number, lineEnd: number): number {
   const end = Math.min(e, lineEnd);
@@ -167,9 +193,12 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
         );
       }
       const i = b.next();
-      const x = fieldFloat(buf, p + 30, p + 38, lineEnd);
-      const y = fieldFloat(buf, p + 38, p + 46, lineEnd);
-      const z = fieldFloat(buf, p + 46, p + 54, lineEnd);
+      let x = fixed83(buf, p + 30);
+      if (Number.isNaN(x)) x = fieldFloat(buf, p + 30, p + 38, lineEnd);
+      let y = fixed83(buf, p + 38);
+      if (Number.isNaN(y)) y = fieldFloat(buf, p + 38, p + 46, lineEnd);
+      let z = fixed83(buf, p + 46);
+      if (Number.isNaN(z)) z = fieldFloat(buf, p + 46, p + 54, lineEnd);
       if (Number.isNaN(x) || Number.isNaN(y) || Number.isNaN(z)) {
         throw lineError(
           line,

@@ -40,7 +40,9 @@ export interface ConformerTable {
   countOfResidue: Int32Array;
 }
 
-/** Altlocs present in a residue, sorted, as string indices (empty when none). */
+const NO_ALTLOCS: number[] = [];
+
+/** Altlocs present in a residue, in order of appearance, as string indices (empty when none). */
 export function residueAltlocs(model: Model, r: number): number[] {
   const { atomStart, atomEnd } = model.residues;
   const alt = model.atoms.altloc;
@@ -157,7 +159,15 @@ export function buildConformers(structure: Structure, model: Model): ConformerTa
   const resList: number[] = [];
   const altList: number[] = [];
   for (let r = 0; r < nr; r++) {
-    const alts = residueAltlocs(model, r);
+    // most residues have no altlocs: check without allocating first
+    let anyAlt = false;
+    for (let i = model.residues.atomStart[r]; i < model.residues.atomEnd[r]; i++) {
+      if (model.atoms.altloc[i] !== 0) {
+        anyAlt = true;
+        break;
+      }
+    }
+    const alts = anyAlt ? residueAltlocs(model, r) : NO_ALTLOCS;
     firstOfResidue[r] = resList.length;
     if (alts.length === 0) {
       resList.push(r);
@@ -189,14 +199,33 @@ export function buildConformers(structure: Structure, model: Model): ConformerTa
     firstOfResidue,
     countOfResidue,
   };
+  // backbone and Cβ in one pass over each residue: an atom of the conformer's altloc wins over
+  // a shared one; for altloc '' the first atom of the name (same rule as findAtom)
+  const names = model.atoms.name;
+  const alts = model.atoms.altloc;
+  const slots = [t.n, t.ca, t.c, t.o, t.cb];
+  const slotOf = new Int8Array(structure.strings.length).fill(-1);
+  [idxN, idxCA, idxC, idxO, idxCB].forEach((idx, j) => {
+    if (idx >= 0) slotOf[idx] = j;
+  });
+  const { atomStart, atomEnd } = model.residues;
   for (let k = 0; k < count; k++) {
     const r = t.residue[k];
     const a = t.altloc[k];
-    if (idxN >= 0) t.n[k] = findAtom(model, r, idxN, a);
-    if (idxCA >= 0) t.ca[k] = findAtom(model, r, idxCA, a);
-    if (idxC >= 0) t.c[k] = findAtom(model, r, idxC, a);
-    if (idxO >= 0) t.o[k] = findAtom(model, r, idxO, a);
-    if (idxCB >= 0) t.cb[k] = findAtom(model, r, idxCB, a);
+    for (let i = atomStart[r]; i < atomEnd[r]; i++) {
+      const j = slotOf[names[i]];
+      if (j < 0) continue;
+      const ai = alts[i];
+      const slot = slots[j];
+      const cur = slot[k];
+      if (a === 0) {
+        if (cur < 0) slot[k] = i;
+      } else if (ai === a) {
+        if (cur < 0 || alts[cur] !== a) slot[k] = i;
+      } else if (ai === 0 && cur < 0) {
+        slot[k] = i;
+      }
+    }
   }
   const { chain, kind, authSeq, icode } = model.residues;
   const maxD2 = PEPTIDE_BREAK_A * PEPTIDE_BREAK_A;
