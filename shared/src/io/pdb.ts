@@ -171,6 +171,8 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
   let model = 1;
   let afterTer = false;
   let prevAtomLine = -1;
+  // previous atom line whose element came from columns 77–78 (and is the atom just before)
+  let prevElementLine = -1;
   let id = '';
   const seqres = new Map<string, string[]>();
   const len = buf.length;
@@ -228,7 +230,10 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
       // hybrid-36 serials (files over 99,999 atoms) are not decimal: number atoms in order then
       b.serial[i] = Number.isNaN(serial) ? i + 1 : serial;
       b.name[i] = names.get(buf, p + 12, p + 16, lineEnd);
-      b.altloc[i] = singles.get(buf, p + 16, p + 17, lineEnd);
+      b.altloc[i] =
+        prevAtomLine >= 0 && buf[p + 16] === buf[prevAtomLine + 16]
+          ? b.altloc[i - 1]
+          : singles.get(buf, p + 16, p + 17, lineEnd);
       let same = prevAtomLine >= 0 && i > 0 && lineEnd - p >= 27;
       for (let q = 17; same && q < 27; q++) if (buf[p + q] !== buf[prevAtomLine + q]) same = false;
       if (same) {
@@ -269,8 +274,15 @@ export function readPdb(buf: Uint8Array, gzip: boolean): Structure {
           if (k >= 0) elementByName.set(k, el);
         }
         b.element[i] = el;
+        prevElementLine = -1;
       } else {
-        b.element[i] = elements.get(buf, p + 76, p + 78, lineEnd);
+        b.element[i] =
+          prevElementLine >= 0 &&
+          buf[p + 76] === buf[prevElementLine + 76] &&
+          buf[p + 77] === buf[prevElementLine + 77]
+            ? b.element[i - 1]
+            : elements.get(buf, p + 76, p + 78, lineEnd);
+        prevElementLine = p;
       }
       if (!isBlank(buf, p + 78, p + 80, lineEnd)) {
         const d = p + 78 < lineEnd ? buf[p + 78] : SP;

@@ -97,13 +97,11 @@ function looksLikeText(bytes: Uint8Array): boolean {
   return bad <= n / 100;
 }
 
-/** The first n bytes as Latin-1 text (one char per byte; enough to recognise a format). */
+const LATIN1 = new TextDecoder('latin1');
+
+/** The first n bytes as single-byte text (enough to recognise a format). */
 function headText(bytes: Uint8Array, n: number): string {
-  const sub = bytes.subarray(0, Math.min(bytes.length, n));
-  let s = '';
-  // fromCharCode over chunks: one call per 1,024 bytes instead of one per byte
-  for (let i = 0; i < sub.length; i += 1024) s += String.fromCharCode(...sub.subarray(i, i + 1024));
-  return s;
+  return LATIN1.decode(bytes.subarray(0, Math.min(bytes.length, n)));
 }
 
 function isCifText(head: string): boolean {
@@ -161,7 +159,7 @@ export function sniffStructure(
       return { format: 'bcif', gzip, bytes };
   }
   if (looksLikeText(bytes)) {
-    const head = headText(bytes, 8192);
+    const head = headText(bytes, 4096);
     if (isCifText(head)) return { format: 'mmcif', gzip, bytes };
     if (isPdbText(head)) return { format: 'pdb', gzip, bytes };
     const hint = filenameHint.toLowerCase();
