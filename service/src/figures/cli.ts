@@ -11,7 +11,7 @@ import { listFigureTemplates } from './templates.js';
 import { sharedVegaHost } from './vega-host.js';
 
 export const FIGURES_USAGE =
-  'figures <model file | report.json> [--previous <file>] [--out DIR] [--preset single|one-and-half|double] [--template ID]... [--format svg,pdf,png] [--dpi N] [--pdf-date ISO]';
+  'figures <model file | report.json> [--previous <file>] [--out DIR] [--preset single|one-and-half|double] [--template ID]... [--param NAME=VALUE]... [--format svg,pdf,png] [--dpi N] [--pdf-date ISO]';
 
 type Io = { out: (t: string) => void; err: (t: string) => void };
 
@@ -45,6 +45,24 @@ export function parseArgs(args: string[]): {
     } else positional.push(a);
   }
   return { positional, options };
+}
+
+/** `--param name=value` pairs that this template declares, typed by its manifest. */
+export function paramsFor(
+  declared: { name: string; type: 'number' | 'string' | 'boolean' }[],
+  pairs: string[],
+): Record<string, number | string | boolean> {
+  const out: Record<string, number | string | boolean> = {};
+  for (const pair of pairs) {
+    const eq = pair.indexOf('=');
+    if (eq < 1) throw new Error(`--param needs NAME=VALUE, got "${pair}".`);
+    const name = pair.slice(0, eq);
+    const raw = pair.slice(eq + 1);
+    const def = declared.find((d) => d.name === name);
+    if (!def) continue; // parameters of other templates
+    out[name] = def.type === 'number' ? Number(raw) : def.type === 'boolean' ? raw === 'true' : raw;
+  }
+  return out;
 }
 
 export async function runFiguresCommand(args: string[], io: Io): Promise<number> {
@@ -81,7 +99,14 @@ export async function runFiguresCommand(args: string[], io: Io): Promise<number>
         io.err(`skipped ${id}: it compares two versions; pass --previous <file>.\n`);
         continue;
       }
-      const fig = await renderFigure({ report, previous, templateId: id, presetId: preset });
+      const params = paramsFor(t?.manifest.parameters ?? [], options.param ?? []);
+      const fig = await renderFigure({
+        report,
+        previous,
+        templateId: id,
+        presetId: preset,
+        params,
+      });
       const stem = join(out, `${id}.${preset}`);
       if (formats.includes('svg')) writeFileSync(`${stem}.svg`, fig.svg);
       if (formats.includes('pdf'))

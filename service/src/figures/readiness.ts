@@ -34,7 +34,11 @@ interface El {
 
 function textOf(el: El): string {
   if (el.type === 'text') return el.data ?? '';
-  return (el.children ?? []).map(textOf).join('');
+  // a tspan with its own position is a new line of a multi-line text
+  return (el.children ?? [])
+    .map((c) => (c.name === 'tspan' && c.attribs?.x !== undefined ? ' ' : '') + textOf(c))
+    .join('')
+    .trim();
 }
 
 function styleMap(style: string | undefined): Record<string, string> {
