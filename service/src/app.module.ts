@@ -1,5 +1,5 @@
 import { type DynamicModule, Module } from '@nestjs/common';
-import { APP_GUARD } from '@nestjs/core';
+import { APP_FILTER, APP_GUARD } from '@nestjs/core';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { AdminModule } from './admin/admin.module.js';
 import { AuthModule } from './auth/auth.module.js';
@@ -15,6 +15,7 @@ import { ManuscriptsModule } from './manuscripts/manuscripts.module.js';
 import { DemoSeedService } from './seed/demo-seed.service.js';
 import { UsersModule } from './users/users.module.js';
 import { ModelsModule } from './models/models.module.js';
+import { DatabaseUnavailableFilter } from './common/database-unavailable.filter.js';
 import { LedgerModule } from './ledger/ledger.module.js';
 import { CommentsModule } from './comments/comments.module.js';
 import { NotificationsModule } from './notifications/notifications.module.js';
@@ -51,6 +52,8 @@ export class AppModule {
         { provide: APP_GUARD, useExisting: JwtAuthGuard },
         { provide: APP_GUARD, useExisting: ManuscriptRoleGuard },
         DemoSeedService,
+        // MariaDB down or restarting → 503 with a sentence (issue 6 fault test)
+        { provide: APP_FILTER, useClass: DatabaseUnavailableFilter },
       ],
     };
   }

@@ -10,6 +10,7 @@ import {
 import { Reflector } from '@nestjs/core';
 import { AuthGuard } from '@nestjs/passport';
 import { type AuthedRequest, IS_PUBLIC } from '../common/request-user.js';
+import { isDatabaseOutage } from '../common/database-unavailable.filter.js';
 
 /** Global: every route needs a valid access token unless it is marked @Public(). */
 @Injectable()
@@ -29,6 +30,8 @@ export class JwtAuthGuard extends AuthGuard('jwt') {
 
   override handleRequest<TUser>(err: unknown, user: TUser | false): TUser {
     if (err instanceof UnauthorizedException) throw err;
+    // the database being down is not a bad session: let it surface as 503, not sign the user out
+    if (isDatabaseOutage(err)) throw err;
     if (err || !user) {
       throw new UnauthorizedException(
         'Sign in to continue: your session is missing, has expired or is not valid.',
