@@ -83,6 +83,7 @@ function verdict(ok: boolean): string {
 
 interface ChildResult {
   seconds: number;
+  cpuSeconds: number;
   maxRssMB: number;
   rows: number;
   timings: Record<string, number>;
@@ -176,16 +177,18 @@ async function main(): Promise<void> {
     );
     if (rb > BAR_RATIO) failures++;
     const full = child(bigFile);
+    // judged on wall time, as the bar is stated; CPU time is printed to show machine load
     const okTime = full.seconds < BAR_REPORT_S;
     const okRss = full.maxRssMB < BAR_RSS_MB;
     console.log(
-      `  full report            ${fmt(full.seconds)} (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${full.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${full.rows} residue rows`,
+      `  full report            ${fmt(full.seconds)} wall, ${fmt(full.cpuSeconds)} CPU (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${full.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${full.rows} residue rows`,
     );
     console.log(`    steps: ${stepLine(full)}`);
     const part = child(smallFile);
-    const frac = part.seconds / full.seconds;
+    // linearity on CPU time: both runs see the same code, only the load differs between them
+    const frac = part.cpuSeconds / full.cpuSeconds;
     console.log(
-      `  full report, ${small.atoms} atoms: ${fmt(part.seconds)} = ${frac.toFixed(3)} of the 1M time (bar ≤ ${BAR_LINEAR.toFixed(3)}) ${verdict(frac <= BAR_LINEAR)}   peak RSS ${part.maxRssMB.toFixed(0)} MB`,
+      `  full report, ${small.atoms} atoms: ${fmt(part.seconds)} wall, ${fmt(part.cpuSeconds)} CPU = ${frac.toFixed(3)} of the 1M CPU time (bar ≤ ${BAR_LINEAR.toFixed(3)}) ${verdict(frac <= BAR_LINEAR)}   peak RSS ${part.maxRssMB.toFixed(0)} MB`,
     );
     console.log(`    steps: ${stepLine(part)}`);
     if (!okTime) failures++;

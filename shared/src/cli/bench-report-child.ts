@@ -10,6 +10,7 @@ import { nodeSha256 } from './node-sha256';
 async function main(): Promise<void> {
   const file = process.argv[2];
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   const timings: Record<string, number> = {};
   const bytes = readFileSync(file);
   const report = await buildReport(bytes, {
@@ -20,13 +21,15 @@ async function main(): Promise<void> {
   });
   const json = JSON.stringify(report);
   const seconds = (performance.now() - t0) / 1000;
+  const cu = process.cpuUsage(c0);
+  const cpuSeconds = (cu.user + cu.system) / 1e6;
   let rows = 0;
   for (const m of report.models) rows += m.residues.length;
   // resourceUsage().maxRSS is in kilobytes (Node docs)
   const maxRssMB = process.resourceUsage().maxRSS / 1024;
   for (const k of Object.keys(timings)) timings[k] = Math.round(timings[k]);
   process.stdout.write(
-    JSON.stringify({ seconds, maxRssMB, rows, jsonBytes: json.length, timings }),
+    JSON.stringify({ seconds, cpuSeconds, maxRssMB, rows, jsonBytes: json.length, timings }),
   );
 }
 
