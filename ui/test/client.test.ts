@@ -12,10 +12,11 @@ import {
 
 type Call = { method: string; path: string; auth: string | null };
 
-function serviceLike() {
+function serviceLike(opts: { raceFirstRefresh?: boolean } = {}) {
   const calls: Call[] = [];
   let validToken = 'token-1';
   let refreshes = 0;
+  let raced = false;
   const json = (status: number, body: unknown) =>
     new Response(JSON.stringify(body), { status, headers: { 'Content-Type': 'application/json' } });
   const fetchImpl = async (input: RequestInfo | URL, init?: RequestInit): Promise<Response> => {
@@ -25,6 +26,14 @@ function serviceLike() {
     calls.push({ method, path, auth });
     await new Promise((r) => setTimeout(r, 5));
     if (path === '/api/auth/refresh') {
+      if (opts.raceFirstRefresh && !raced) {
+        // another tab of this browser refreshed a moment earlier with the same cookie
+        raced = true;
+        return json(401, {
+          statusCode: 401,
+          message: 'Your session was just renewed in another tab.',
+        });
+      }
       refreshes += 1;
       // a rotated cookie is single-use: only the first refresh in this exchange succeeds
       if (refreshes > 1) return json(401, { statusCode: 401, message: 'Sign in again.' });
@@ -116,4 +125,22 @@ test('an unreachable server becomes an actionable sentence', async () => {
     status: 0,
     message: expect.stringMatching(/could not reach its server.*try again/i),
   });
+});
+
+test('a refresh that lost a race with another tab is tried once more and succeeds', async () => {
+  const svc = serviceLike({ raceFirstRefresh: true });
+  globalThis.fetch = svc.fetchImpl as typeof fetch;
+  setSession({ accessToken: 'expired', expiresIn: 0, user: {} as never });
+  await expect(api<{ path: string }>('/api/manuscripts')).resolves.toEqual({
+    path: '/api/manuscripts',
+  });
+  expect(svc.calls.filter((c) => c.path === '/api/auth/refresh')).toHaveLength(2);
+  expect(hasAccessToken()).toBe(true);
+});
+
+test('a first visit without a session asks for a refresh once, not twice', async () => {
+  const svc = serviceLike({ raceFirstRefresh: true });
+  globalThis.fetch = svc.fetchImpl as typeof fetch;
+  await expect(refreshSession()).resolves.toBeNull();
+  expect(svc.calls.filter((c) => c.path === '/api/auth/refresh')).toHaveLength(1);
 });

@@ -7,6 +7,7 @@ import type {
   SignInBody,
   UserDto,
 } from '@foldfolio/shared';
+import { useNavigate } from 'react-router';
 import { api, setSession } from './client';
 import { meKeys } from './keys';
 
@@ -56,14 +57,23 @@ export function useRegister() {
   });
 }
 
+/**
+ * Ends the session on the server and here, then goes to `to`. The navigation lives in the
+ * mutation itself: the component that asked unmounts as soon as the session is gone, and a
+ * caller's own callbacks would never run.
+ */
 export function useSignOut() {
   const qc = useQueryClient();
+  const navigate = useNavigate();
   return useMutation({
-    mutationFn: () => api<void>('/api/auth/sign-out', { method: 'POST' }),
+    mutationFn: async (_to: string) => {
+      await api<void>('/api/auth/sign-out', { method: 'POST' });
+    },
     // sign out locally even when the server call fails: the user asked to leave
-    onSettled: () => {
+    onSettled: (_data, _err, to) => {
       setSession(null);
       qc.clear();
+      void navigate(to, { replace: true });
     },
   });
 }

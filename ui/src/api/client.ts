@@ -72,6 +72,15 @@ async function send(path: string, init: RequestInit, withToken: boolean): Promis
   }
 }
 
+// The service refuses the loser of two simultaneous refreshes (two tabs of one browser) within a
+// short grace period; by then the winner's new cookie is in the jar, so one later try succeeds.
+const REFRESH_RETRY_DELAY_MS = 400;
+
+async function tryRefresh(): Promise<SessionDto | null> {
+  const res = await send('/api/auth/refresh', { method: 'POST' }, false);
+  return res.ok ? ((await res.json()) as SessionDto) : null;
+}
+
 /**
  * Trades the refresh cookie for a new session. Concurrent callers share one request, because the
  * service rotates the refresh token and a second parallel refresh would present a spent one.
@@ -80,12 +89,12 @@ export function refreshSession(): Promise<SessionDto | null> {
   if (!refreshing) {
     refreshing = (async () => {
       try {
-        const res = await send('/api/auth/refresh', { method: 'POST' }, false);
-        if (!res.ok) {
-          setSession(null);
-          return null;
+        let session = await tryRefresh();
+        if (!session && accessToken !== null) {
+          // only a live session can have lost a race; a first visit without a cookie has not
+          await new Promise((r) => setTimeout(r, REFRESH_RETRY_DELAY_MS));
+          session = await tryRefresh();
         }
-        const session = (await res.json()) as SessionDto;
         setSession(session);
         return session;
       } catch {

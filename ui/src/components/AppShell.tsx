@@ -10,7 +10,7 @@ import {
   NavbarHeading,
   Popover,
 } from '@blueprintjs/core';
-import { Link, NavLink, Outlet, useNavigate } from 'react-router';
+import { Link, NavLink, Outlet } from 'react-router';
 import { useSignOut } from '../api/auth';
 import { useAuth } from '../hooks/useAuth';
 import { Wordmark } from './Wordmark';
@@ -18,7 +18,6 @@ import { Wordmark } from './Wordmark';
 export function AppShell() {
   const auth = useAuth();
   const signOut = useSignOut();
-  const navigate = useNavigate();
   const user = auth.status === 'signed-in' ? auth.user : null;
 
   return (
@@ -51,9 +50,7 @@ export function AppShell() {
                   <MenuItem
                     icon="log-out"
                     text="Sign out"
-                    onClick={() =>
-                      signOut.mutate(undefined, { onSettled: () => navigate('/sign-in') })
-                    }
+                    onClick={() => signOut.mutate('/sign-in')}
                   />
                 </Menu>
               }

@@ -97,15 +97,18 @@ export function AcceptInvitationPage() {
                 href="#"
                 onClick={(e) => {
                   e.preventDefault();
-                  signOut.mutate(undefined, {
-                    onSettled: () => navigate(`/sign-in?next=${encodeURIComponent(here)}`),
-                  });
+                  signOut.mutate(`/sign-in?next=${encodeURIComponent(here)}`);
                 }}
               >
                 sign out and sign in with it
               </a>
               .
             </Callout>
+          )}
+          {!otherAccount && (
+            <p className="ff-muted">
+              Signed in as {auth.user.displayName} ({auth.user.email}).
+            </p>
           )}
           <Problem error={accept.error} />
           <div className="ff-button-row">
