@@ -96,8 +96,8 @@ function stepLine(c: ChildResult): string {
     .join(', ');
 }
 
-function child(file: string): ChildResult {
-  const out = execFileSync(process.execPath, ['--max-old-space-size=4096', CHILD, file], {
+function child(file: string, warmUp: string): ChildResult {
+  const out = execFileSync(process.execPath, ['--max-old-space-size=4096', CHILD, file, warmUp], {
     encoding: 'utf8',
     maxBuffer: 1 << 20,
   });
@@ -176,7 +176,7 @@ async function main(): Promise<void> {
       `  read + phi/psi/omega   CPU foldfolio ${fmt(b.cpu)}   gemmi ${fmt(gb.cpu)}   ratio ${rb.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×) ${verdict(rb <= BAR_RATIO)}   [wall ${fmt(b.seconds)} vs ${fmt(gb.seconds)}]`,
     );
     if (rb > BAR_RATIO) failures++;
-    const full = child(bigFile);
+    const full = child(bigFile, srcPath);
     // judged on wall time, as the bar is stated; CPU time is printed to show machine load
     const okTime = full.seconds < BAR_REPORT_S;
     const okRss = full.maxRssMB < BAR_RSS_MB;
@@ -184,7 +184,7 @@ async function main(): Promise<void> {
       `  full report            ${fmt(full.seconds)} wall, ${fmt(full.cpuSeconds)} CPU (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${full.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${full.rows} residue rows`,
     );
     console.log(`    steps: ${stepLine(full)}`);
-    const part = child(smallFile);
+    const part = child(smallFile, srcPath);
     // linearity on CPU time: both runs see the same code, only the load differs between them
     const frac = part.cpuSeconds / full.cpuSeconds;
     console.log(
