@@ -215,17 +215,19 @@ export function buildSpec(
   const widthPt = preset.widthMm * PT_PER_MM;
   const columns = Math.max(1, Math.min(preset.panelColumns, 6));
   // left axis (~34 pt) plus gaps between panels; panels square
-  const panelWidthPt = Math.floor((widthPt - 42 - shrinkPt - (columns - 1) * 10) / columns);
+  // quarter-point steps: the width then follows the shrink closely, so the passes converge
+  const q = (x: number) => Math.floor(x * 4) / 4;
+  const panelWidthPt = q((widthPt - 42 - shrinkPt - (columns - 1) * 10) / columns);
   const scope: Record<string, unknown> = {
     ...params,
     preset,
-    widthPt: Math.floor(widthPt - 46 - shrinkPt),
+    widthPt: q(widthPt - 46 - shrinkPt),
     columns,
     panelWidthPt,
     smallColumns: columns * 2,
     // two panels per preset column, leaving room for a colour legend (~50 pt)
-    smallPanelPt: Math.floor((widthPt - 92 - shrinkPt - (columns * 2 - 1) * 8) / (columns * 2)),
-    halfWidthPt: Math.floor((widthPt - 52 - shrinkPt) / 2),
+    smallPanelPt: q((widthPt - 92 - shrinkPt - (columns * 2 - 1) * 8) / (columns * 2)),
+    halfWidthPt: q((widthPt - 52 - shrinkPt) / 2),
     caption: captionFor(req.report, m, widthPt - 20 - shrinkPt, preset.fontSizePt.annotation),
     baseConfig: baseConfig(preset),
   };
