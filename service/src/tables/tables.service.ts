@@ -6,7 +6,7 @@
 import { BadRequestException, Injectable, UnprocessableEntityException } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { Repository } from 'typeorm';
-import { type ExperimentalStats } from '@foldfolio/shared';
+import { EXPERIMENT_FIELDS, type ExperimentalStats } from '@foldfolio/shared';
 import { AnalysesService } from '../analyses/analyses.service.js';
 import { ModelsService } from '../models/models.service.js';
 import { MethodsFormEntry } from '../templates/template.entities.js';
@@ -38,6 +38,13 @@ export interface MethodsTableDto {
   /** keys of the values the table shows */
   used: string[];
   form: MethodsForm;
+  /** the experimental fields the form offers for the table's method, in table order */
+  fields: { key: string; label: string; kind: 'number' | 'string' }[];
+}
+
+/** The experimental method a table slot is written for. */
+function tableMethod(slot: string): 'x-ray' | 'electron-microscopy' | 'nmr' {
+  return slot === 'methods-em' ? 'electron-microscopy' : slot === 'methods-nmr' ? 'nmr' : 'x-ray';
 }
 
 @Injectable()
@@ -127,6 +134,9 @@ export class TablesService {
         values,
         used: table.used.map((u) => u.key),
         form,
+        fields: EXPERIMENT_FIELDS.filter(
+          (f) => !f.methods || f.methods.includes(tableMethod(slot)),
+        ).map((f) => ({ key: f.key, label: f.label, kind: f.kind })),
       },
     };
   }

@@ -67,6 +67,7 @@ export interface MethodsTableDto {
   values: TableValueDto[];
   used: string[];
   form: Record<string, string | number | null>;
+  fields: { key: string; label: string; kind: 'number' | 'string' }[];
 }
 export interface TemplateVersionDto {
   templateId: string;

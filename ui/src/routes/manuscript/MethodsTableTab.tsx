@@ -30,6 +30,8 @@ const FORMATS = [
 ] as const;
 
 function Provenance({ v }: { v: TableValueDto }) {
+  if (v.origin === 'file' && v.value === null)
+    return <span className="ff-provenance">{'not in the file: enter it here'}</span>;
   const intent = v.origin === 'form' ? 'primary' : v.origin === 'computed' ? 'success' : 'none';
   const text =
     v.origin === 'file'
@@ -60,11 +62,17 @@ export function MethodsTableTab({ manuscript }: { manuscript: ManuscriptDto }) {
     setDraft({});
   }, [chosen?.id]);
 
-  const rows = useMemo(() => {
-    const vals = table.data?.values ?? [];
-    // used values first (in the table), then the rest the form can fill
-    const used = new Set(table.data?.used ?? []);
-    return [...vals].sort((a, b) => Number(used.has(b.key)) - Number(used.has(a.key)));
+  // every experimental field of the method (filled or not), in table order, then computed values
+  const rows = useMemo((): TableValueDto[] => {
+    const d = table.data;
+    if (!d) return [];
+    const byKey = new Map(d.values.map((v) => [v.key, v]));
+    const fields = d.fields.map(
+      (f): TableValueDto =>
+        byKey.get(f.key) ?? { key: f.key, label: f.label, value: null, origin: 'file', source: '' },
+    );
+    const computed = d.values.filter((v) => v.origin === 'computed');
+    return [...fields, ...computed];
   }, [table.data]);
 
   if (gate) return gate;

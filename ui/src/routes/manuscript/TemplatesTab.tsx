@@ -174,16 +174,21 @@ function Editor({
   openRef,
   canEdit,
   versionId,
+  onSaved,
+  manuscriptRole,
 }: {
+  manuscriptRole: string;
   manuscriptId: string;
   template: TemplateDto;
   openRef: string;
   canEdit: boolean;
   versionId: string | null;
+  onSaved: (ref: string) => void;
 }) {
   const version = useTemplateVersion(manuscriptId, openRef);
   const save = useSaveTemplateVersion(manuscriptId);
   const editable = canEdit && template.scope !== 'builtin';
+  const canEditRole = manuscriptRole === 'owner' || manuscriptRole === 'editor';
   const [body, setBody] = useState('');
   const [message, setMessage] = useState('');
   const [preview, setPreview] = useState<PreviewDto | null>(null);
@@ -228,7 +233,9 @@ function Editor({
         <Callout icon="eye-open">
           {template.scope === 'builtin'
             ? 'Built-in templates are read-only: fork one to make a house version.'
-            : 'You can read this template; owners and editors save new versions.'}
+            : canEditRole
+              ? 'This is an earlier version, kept as it was saved: open the newest version to edit, or fork this one.'
+              : 'You can read this template; owners and editors save new versions.'}
         </Callout>
       )}
       <div className={editable ? 'ff-editor-layout' : undefined}>
@@ -276,6 +283,7 @@ function Editor({
                   onSuccess: (v) => {
                     setMessage('');
                     notify(`Saved as version ${v.n}.`);
+                    onSaved(ref(template.id, v.n));
                   },
                 },
               )
@@ -456,6 +464,8 @@ export function TemplatesTab({ manuscript }: { manuscript: ManuscriptDto }) {
               openRef={open}
               canEdit={canEdit && openTemplate.latest === Number(open.split('@').pop())}
               versionId={analysed}
+              manuscriptRole={manuscript.role}
+              onSaved={setOpen}
             />
           </Card>
         )}

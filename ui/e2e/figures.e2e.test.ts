@@ -1,0 +1,188 @@
+// Browser test of the Figures, Methods table and Templates tabs against the real service and
+// Debian's Chromium: gallery with readiness badges and a PDF export, the methods form with
+// provenance and an override reaching the preview, and a template forked, broken (the error's
+// line is shown), fixed, saved as version 2, pinned and compared with the built-in.
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import {
+  apiPost,
+  launchBrowser,
+  registerViaApi,
+  ROOT,
+  SCREENSHOTS,
+  startService,
+  type Person,
+  type RunningService,
+} from './harness';
+
+// invented person (demo data rule: no real names)
+const OWNER: Person = {
+  name: 'Ilse Marrowby',
+  email: 'ilse.marrowby@fernhollow-lab.example',
+  password: 'houseStyle-2026',
+};
+const VIEWPORT = { width: 1400, height: 950 };
+// a real PDB entry (1A8O, X-ray) copied into the repo as a test fixture
+const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '1A8O.cif');
+
+let service: RunningService;
+let browser: Browser;
+let dir: string;
+const pageErrors: string[] = [];
+
+async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({
+    path: join(SCREENSHOTS, `${name}.png`),
+    fullPage: true,
+    animations: 'disabled',
+  });
+}
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'ff-fig-e2e-'));
+  service = await startService({ logName: 'figures' });
+  browser = await launchBrowser();
+}, 90_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await service?.stop();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+afterEach(() => {
+  expect(pageErrors.splice(0)).toEqual([]);
+});
+
+test('figures, methods table and templates in the browser', async () => {
+  const token = await registerViaApi(service.url, OWNER);
+  const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
+    title: 'Fernhollow lectin domain',
+  });
+  const form = new FormData();
+  form.append('file', new Blob([readFileSync(STRUCTURE)]), '1A8O.cif');
+  const up = await fetch(`${service.url}/api/manuscripts/${ms.id}/models`, {
+    method: 'POST',
+    headers: { Authorization: `Bearer ${token}` },
+    body: form,
+  });
+  expect(up.status).toBe(201);
+  const version = (await up.json()) as { id: string };
+  for (let i = 0; ; i++) {
+    const a = (await (
+      await fetch(`${service.url}/api/manuscripts/${ms.id}/models/${version.id}/analysis`, {
+        headers: { Authorization: `Bearer ${token}` },
+      })
+    ).json()) as { status: string };
+    if (a.status === 'done') break;
+    if (a.status === 'failed' || i > 600) throw new Error(`analysis ${a.status}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+
+  const ctx = await browser.newContext({
+    baseURL: service.url,
+    viewport: VIEWPORT,
+    acceptDownloads: true,
+  });
+  const page = await ctx.newPage();
+  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail address').fill(OWNER.email);
+  await page.getByLabel('Password').fill(OWNER.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/desk$/);
+
+  // Figures: every card draws its SVG (the comparison figure explains it needs two versions)
+  await page.goto(`/manuscripts/${ms.id}/figures`);
+  const torsion = page.getByTestId('figure-torsion-plot');
+  await torsion.locator('img').waitFor({ timeout: 60_000 });
+  await page.waitForFunction(
+    () => document.querySelectorAll('.ff-figure-card img').length >= 6,
+    undefined,
+    { timeout: 60_000 },
+  );
+  await page.waitForFunction(() =>
+    [...document.querySelectorAll<HTMLImageElement>('.ff-figure-card img')].every(
+      (i) => i.complete && i.naturalWidth > 0,
+    ),
+  );
+  expect(await page.getByTestId('figure-version-compare').textContent()).toMatch(
+    /second model version/,
+  );
+  const badges = await page
+    .locator('[data-testid=readiness-ok], [data-testid=readiness-issues]')
+    .count();
+  expect(badges).toBeGreaterThanOrEqual(6);
+  await shot(page, 'figures-01-gallery');
+  const [pdf] = await Promise.all([
+    page.waitForEvent('download'),
+    torsion.getByRole('button', { name: 'PDF' }).click(),
+  ]);
+  expect(pdf.suggestedFilename()).toBe('torsion-plot.single.pdf');
+  const pdfPath = join(dir, 'f.pdf');
+  await pdf.saveAs(pdfPath);
+  expect(readFileSync(pdfPath).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+
+  // Methods table: provenance per value; an override shows up in the preview as "form"
+  await page.goto(`/manuscripts/${ms.id}/methods-table`);
+  await page.getByTestId('methods-table-preview').locator('table').waitFor({ timeout: 30_000 });
+  const formPanel = page.getByTestId('methods-form');
+  expect(await formPanel.textContent()).toMatch(/from the file: _refine\.ls_d_res_high/);
+  expect(await formPanel.textContent()).toMatch(/computed/);
+  // 1A8O.cif states no CC1/2: the form offers the field empty
+  expect(await formPanel.textContent()).toMatch(/CC1\/2not in the file: enter it here/);
+  await page.getByLabel('R-free', { exact: true }).fill('0.2468');
+  await page.getByRole('button', { name: 'Save form' }).click();
+  await page.waitForFunction(() =>
+    /0\.24[67]/.test(
+      document.querySelector('[data-testid=methods-table-preview]')?.textContent ?? '',
+    ),
+  );
+  expect(await formPanel.textContent()).toMatch(/entered in the form/);
+  await shot(page, 'figures-02-methods-table');
+
+  // Templates: fork the X-ray table, break it, see the line, fix, save v2, pin, compare
+  await page.goto(`/manuscripts/${ms.id}/templates`);
+  await page.getByTestId('template-slots').getByRole('button', { name: /X-ray/ }).click();
+  await page.getByTestId('template-builtin').getByRole('button', { name: 'Fork' }).click();
+  await page.getByLabel('Name').fill('Fernhollow house table');
+  await page.getByRole('button', { name: 'Fork', exact: true }).last().click();
+  const editor = page.getByTestId('template-editor');
+  await editor.waitFor();
+  await page.getByTestId('live-preview').locator('table').waitFor({ timeout: 30_000 });
+  const content = editor.locator('.cm-content');
+  await content.click();
+  await page.keyboard.press('Control+Home');
+  await page.keyboard.press('End');
+  await page.keyboard.press('Enter');
+  // a helper outside the sandbox's fixed list, on line 2
+  await page.keyboard.type('{{shout "x"}}');
+  await page
+    .getByTestId('live-preview')
+    .getByText(/line 2/i)
+    .first()
+    .waitFor({ timeout: 15_000 });
+  expect(await editor.locator('.ff-cm-error-line').count()).toBe(1);
+  await shot(page, 'figures-03-template-error');
+  // undo the broken line and add a visible change on its place
+  await page.keyboard.press('Home');
+  await page.keyboard.press('Shift+End');
+  await page.keyboard.type('<p>House style</p>');
+  await page.getByTestId('live-preview').getByText('House style').waitFor({ timeout: 15_000 });
+  await page.getByLabel('Version message').fill('Add the house line');
+  await page.getByRole('button', { name: 'Save as new version' }).click();
+  await page.getByTestId('template-manuscript').getByText('v2', { exact: true }).waitFor();
+  await page
+    .getByTestId('template-manuscript')
+    .getByRole('button', { name: 'Pin' })
+    .first()
+    .click();
+  await page.getByTestId('template-manuscript').getByText('pinned').waitFor();
+  const diff = page.getByTestId('template-diff');
+  await diff.locator('.ff-diff-add').first().waitFor();
+  expect(await diff.locator('.ff-diff-add').allTextContents()).toEqual(['+ <p>House style</p>']);
+  await shot(page, 'figures-04-template-pinned');
+  await ctx.close();
+}, 240_000);
