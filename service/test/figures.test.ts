@@ -317,6 +317,13 @@ describe('readiness check names the offending element', () => {
     expect(r.issues.some((i) => i.check === 'line' && /0\.100 pt/.test(i.message))).toBe(true);
   });
 
+  test('a character no shipped font draws is reported with its text', () => {
+    const svg = torsion['1A8O.cif'].svg.replace('>φ<', '>√φ<');
+    const issues = checkReadiness(svg, preset).issues.filter((i) => i.check === 'glyph');
+    expect(issues.length).toBe(1);
+    expect(issues[0].message).toMatch(/uses √/);
+  });
+
   test('a width other than the preset is reported', () => {
     const svg = torsion['1A8O.cif'].svg.replace('width="89mm"', 'width="100mm"');
     expect(checkReadiness(svg, preset).issues.map((i) => i.check)).toContain('size');

@@ -6,10 +6,10 @@
  */
 import { parseDocument } from 'htmlparser2';
 import type { Preset } from './types.js';
-import { PT_PER_MM } from './svg.js';
+import { missingGlyphs, PT_PER_MM } from './svg.js';
 
 export interface ReadinessIssue {
-  check: 'size' | 'font' | 'line' | 'palette';
+  check: 'size' | 'font' | 'line' | 'palette' | 'glyph';
   /** the offending element: mark name and text or colour */
   element: string;
   message: string;
@@ -184,6 +184,7 @@ export function checkReadiness(svg: string, preset: Preset): ReadinessResult {
   );
   const fontIssues = new Map<string, ReadinessIssue>();
   const lineIssues = new Map<string, ReadinessIssue>();
+  const glyphIssues = new Map<string, ReadinessIssue>();
 
   const walk = (el: El, inh: Record<string, string>, mark: string) => {
     if (el.type !== 'tag') return;
@@ -206,6 +207,14 @@ export function checkReadiness(svg: string, preset: Preset): ReadinessResult {
       const size = parseFloat(cur['font-size'] ?? '11') * scale;
       const label = textOf(el).trim();
       minFont = minFont === null ? size : Math.min(minFont, size);
+      const missing = missingGlyphs(label);
+      if (missing.length && !glyphIssues.has(label)) {
+        glyphIssues.set(label, {
+          check: 'glyph',
+          element: `${here}: "${label}"`,
+          message: `Text "${label}" (${here}) uses ${missing.join(' ')}, which no shipped font draws (it would print as a box); write it another way.`,
+        });
+      }
       if (size < preset.minFontPt - 1e-6 && label) {
         const key = `${here}|${size.toFixed(2)}`;
         if (!fontIssues.has(key))
@@ -253,7 +262,7 @@ export function checkReadiness(svg: string, preset: Preset): ReadinessResult {
     for (const ch of el.children ?? []) walk(ch, cur, here);
   };
   walk(root, {}, 'figure');
-  issues.push(...fontIssues.values(), ...lineIssues.values());
+  issues.push(...fontIssues.values(), ...lineIssues.values(), ...glyphIssues.values());
   for (const c of paletteConflicts([...colours].sort())) {
     issues.push({
       check: 'palette',

@@ -20,6 +20,18 @@ function fonts(): Map<string, FkFont> {
 
 export const PT_PER_MM = 72 / 25.4;
 
+/** Characters of a text that none of the figure fonts can draw (they would print as boxes). */
+export function missingGlyphs(text: string): string[] {
+  const f = [...fonts().values()];
+  const out = new Set<string>();
+  for (const ch of text) {
+    const cp = ch.codePointAt(0)!;
+    if (cp <= 0x20) continue;
+    if (!f.some((x) => x.hasGlyphForCodePoint(cp))) out.add(ch);
+  }
+  return [...out];
+}
+
 function decode(s: string): string {
   return s
     .replace(/&lt;/g, '<')
