@@ -2,9 +2,10 @@
 // Debian's Chromium: gallery with readiness badges and a PDF export, the methods form with
 // provenance and an override reaching the preview, and a template forked, broken (the error's
 // line is shown), fixed, saved as version 2, pinned and compared with the built-in.
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { createConnection } from 'mysql2/promise';
 import type { Browser, Page } from 'playwright-core';
 import {
   apiPost,
@@ -23,6 +24,11 @@ const OWNER: Person = {
   email: 'ilse.marrowby@fernhollow-lab.example',
   password: 'houseStyle-2026',
 };
+const COMMENTER: Person = {
+  name: 'Tobiah Quenell',
+  email: 'tobiah.quenell@fernhollow-lab.example',
+  password: 'readOnly-2026-x',
+};
 const VIEWPORT = { width: 1400, height: 950 };
 // a real PDB entry (1A8O, X-ray) copied into the repo as a test fixture
 const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '1A8O.cif');
@@ -31,6 +37,28 @@ let service: RunningService;
 let browser: Browser;
 let dir: string;
 const pageErrors: string[] = [];
+
+/** Adds a membership straight in the test's own database (the invitation flow has its own test). */
+async function addMember(dbName: string, email: string, manuscriptId: string, role: string) {
+  const pwFile = join(process.env.FOLDFOLIO_VAR ?? join(ROOT, 'var'), 'db-password');
+  const conn = await createConnection({
+    host: process.env.FOLDFOLIO_DB_HOST ?? '127.0.0.1',
+    port: Number(process.env.FOLDFOLIO_DB_PORT ?? 33061),
+    user: process.env.FOLDFOLIO_DB_USER ?? 'foldfolio',
+    password:
+      process.env.FOLDFOLIO_DB_PASSWORD ??
+      (existsSync(pwFile) ? readFileSync(pwFile, 'utf8').trim() : ''),
+    database: dbName,
+  });
+  try {
+    await conn.query(
+      'INSERT INTO memberships (id, manuscript_id, user_id, role) SELECT UUID(), ?, id, ? FROM users WHERE email = ?',
+      [manuscriptId, role, email],
+    );
+  } finally {
+    await conn.end();
+  }
+}
 
 async function shot(page: Page, name: string): Promise<void> {
   await page.screenshot({
@@ -185,4 +213,38 @@ test('figures, methods table and templates in the browser', async () => {
   expect(await diff.locator('.ff-diff-add').allTextContents()).toEqual(['+ <p>House style</p>']);
   await shot(page, 'figures-04-template-pinned');
   await ctx.close();
+
+  // a commenter reads everything and can change nothing
+  await registerViaApi(service.url, COMMENTER);
+  await addMember(service.dbName, COMMENTER.email, ms.id, 'commenter');
+  const cctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+  const cpage = await cctx.newPage();
+  cpage.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  await cpage.goto('/sign-in');
+  await cpage.getByLabel('E-mail address').fill(COMMENTER.email);
+  await cpage.getByLabel('Password').fill(COMMENTER.password);
+  await cpage.getByRole('button', { name: 'Sign in' }).click();
+  await cpage.waitForURL(/\/desk$/);
+  await cpage.goto(`/manuscripts/${ms.id}/methods-table`);
+  await cpage.getByTestId('methods-table-preview').locator('table').waitFor({ timeout: 30_000 });
+  expect(await cpage.getByTestId('methods-form').locator('input').count()).toBe(0);
+  expect(await cpage.getByRole('button', { name: 'Save form' }).count()).toBe(0);
+  // the pinned fork (with its house line) is what the table shows
+  expect(await cpage.getByTestId('methods-table-preview').textContent()).toContain('House style');
+  await cpage.goto(`/manuscripts/${ms.id}/templates`);
+  await cpage.getByTestId('template-slots').getByRole('button', { name: /X-ray/ }).click();
+  const fork = cpage.getByTestId('template-manuscript');
+  await fork.getByText('pinned').waitFor();
+  expect(await fork.getByRole('button', { name: /^(Fork|Pin|Edit)$/ }).count()).toBe(0);
+  await fork.getByRole('button', { name: 'View' }).first().click();
+  await cpage.getByTestId('template-editor').getByText('You can read this template').waitFor();
+  expect(
+    await cpage
+      .getByTestId('template-editor')
+      .locator('.cm-content')
+      .getAttribute('contenteditable'),
+  ).toBe('false');
+  expect(await cpage.getByRole('button', { name: 'Save as new version' }).count()).toBe(0);
+  await shot(cpage, 'figures-05-commenter-view');
+  await cctx.close();
 }, 240_000);
