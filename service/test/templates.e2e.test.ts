@@ -316,3 +316,23 @@ test('the live preview renders a draft table and reports a render error with its
     .send({ key: 'methods-xray', body: builtinTable, modelVersionId: v.id })
     .expect(403);
 }, 60000);
+
+test('the live preview draws a draft figure spec (title from the draft) with its readiness', async () => {
+  const v = await seedVersion(t, manuscriptId, owner.id, '1A8O.cif');
+  const spec = JSON.parse(builtinSpecOf('omega-histogram')) as Record<string, unknown>;
+  spec.title = 'Draft title from the editor';
+  const res = await api(owner)
+    .post(`${base()}/templates/preview`)
+    .send({ key: 'omega-histogram', body: JSON.stringify(spec), modelVersionId: v.id })
+    .expect(201);
+  expect(res.body.kind).toBe('figure');
+  expect(res.body.svg).toContain('Draft title from the editor');
+  expect(typeof res.body.readiness.ok).toBe('boolean');
+  const bad = await api(owner)
+    .post(`${base()}/templates/preview`)
+    .send({ key: 'omega-histogram', body: '{\n  "mark": "bar",\n  oops\n}', modelVersionId: v.id })
+    .expect(422);
+  expect(bad.body.line).toBe(3);
+  const { sharedVegaHost } = await import('../src/figures/vega-host.js');
+  await sharedVegaHost().close();
+}, 60000);
