@@ -20,7 +20,8 @@ export function DeskPage() {
   const [frameRef, frameWidth] = useElementWidth<HTMLDivElement>(1000);
   // fixed widths for the short columns; the title takes the rest of the frame
   const fixed = [140, 110, 200];
-  const titleWidth = Math.max(260, frameWidth - fixed.reduce((a, b) => a + b, 0) - 2);
+  // (contentRect already excludes the frame's border)
+  const titleWidth = Math.max(260, frameWidth - fixed.reduce((a, b) => a + b, 0));
 
   const rows = useMemo(() => {
     const all = manuscripts.data ?? [];
