@@ -10,7 +10,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { buildReport, type Report } from '@foldfolio/shared';
 import { svgToPdf, svgToPng } from '../src/figures/export.js';
-import { compareDataset, torsionDataset } from '../src/figures/datasets.js';
+import { compareDataset, gridOutline, gridRuns, torsionDataset } from '../src/figures/datasets.js';
 import { figureReferenceForReport } from '../src/figures/figure-reference.js';
 import { checkReadiness, deltaE, paletteConflicts, simulate } from '../src/figures/readiness.js';
 import { renderFigure, type RenderedFigure } from '../src/figures/render.js';
@@ -118,6 +118,31 @@ describe('torsion-angle figure', () => {
       expect([preset, fig.readiness.issues]).toEqual([preset, []]);
       expect(fig.readiness.widthMm).toBe(loadPreset(preset).widthMm);
     }
+  });
+});
+
+describe('region shapes (hand-worked grids)', () => {
+  // 4×4 cells of 90°: an L of three cells, (i=0,j=0), (i=1,j=0), (i=0,j=1); i runs along φ
+  const size = 4;
+  const codes = new Uint8Array(size * size);
+  codes[0 * size + 0] = 2;
+  codes[1 * size + 0] = 2;
+  codes[0 * size + 1] = 1;
+  const grid = { stepDeg: 90, size, codes };
+
+  test('filled rectangles cover exactly the cells at or above the level', () => {
+    expect(gridRuns(grid, 2)).toEqual([{ x0: -180, x1: 0, y0: -180, y1: -90 }]);
+    expect(gridRuns(grid, 1)).toEqual([
+      { x0: -180, x1: 0, y0: -180, y1: -90 },
+      { x0: -180, x1: -90, y0: -90, y1: 0 },
+    ]);
+  });
+
+  test('the outline of the L has six straight edges and perimeter 8 cells', () => {
+    const segs = gridOutline(grid, 1);
+    expect(segs.length).toBe(6);
+    const perimeter = segs.reduce((a, s) => a + Math.abs(s.x1 - s.x0) + Math.abs(s.y1 - s.y0), 0);
+    expect(perimeter).toBe(8 * 90);
   });
 });
 
