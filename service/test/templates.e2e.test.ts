@@ -327,6 +327,21 @@ test('the live preview draws a draft figure spec (title from the draft) with its
     .expect(201);
   expect(res.body.kind).toBe('figure');
   expect(res.body.svg).toContain('Draft title from the editor');
+  // numbered as the version it would become: a fresh fork has 1, so the draft is v2
+  const fork = await api(owner)
+    .post(`${base()}/templates`)
+    .send({ from: 'builtin:omega-histogram@1', scope: 'manuscript', name: 'Omega draft' })
+    .expect(201);
+  const numbered = await api(owner)
+    .post(`${base()}/templates/preview`)
+    .send({
+      key: 'omega-histogram',
+      body: JSON.stringify(spec),
+      modelVersionId: v.id,
+      templateId: fork.body.id,
+    })
+    .expect(201);
+  expect(numbered.body.svg).toMatch(/omega-histogram v2\b/);
   expect(typeof res.body.readiness.ok).toBe('boolean');
   const bad = await api(owner)
     .post(`${base()}/templates/preview`)

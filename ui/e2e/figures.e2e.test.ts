@@ -212,6 +212,19 @@ test('figures, methods table and templates in the browser', async () => {
   await diff.locator('.ff-diff-add').first().waitFor();
   expect(await diff.locator('.ff-diff-add').allTextContents()).toEqual(['+ <p>House style</p>']);
   await shot(page, 'figures-04-template-pinned');
+  // a figure fork: the JSON spec in the editor, its SVG drawn live beside it
+  await page
+    .getByTestId('template-slots')
+    .getByRole('button', { name: /ω histogram/ })
+    .click();
+  await page.getByTestId('template-builtin').getByRole('button', { name: 'Fork' }).click();
+  await page.getByLabel('Name').fill('Fernhollow omega');
+  await page.getByRole('button', { name: 'Fork', exact: true }).last().click();
+  await page.getByTestId('live-preview').locator('img').waitFor({ timeout: 30_000 });
+  expect(await page.getByTestId('template-editor').locator('.cm-content').textContent()).toContain(
+    '"$schema"',
+  );
+  await shot(page, 'figures-05-figure-fork');
   await ctx.close();
 
   // a commenter reads everything and can change nothing
@@ -245,6 +258,6 @@ test('figures, methods table and templates in the browser', async () => {
       .getAttribute('contenteditable'),
   ).toBe('false');
   expect(await cpage.getByRole('button', { name: 'Save as new version' }).count()).toBe(0);
-  await shot(cpage, 'figures-05-commenter-view');
+  await shot(cpage, 'figures-06-commenter-view');
   await cctx.close();
 }, 240_000);

@@ -178,9 +178,13 @@ export class FiguresController {
         });
       throw e;
     }
+    // a draft is labelled as the version it would become when saved
+    const n = body.templateId
+      ? (await this.templates.get(manuscriptId, body.templateId)).latest + 1
+      : 0;
     const draft = this.templates.withBody(
       b,
-      { templateId: 'draft', n: 0 },
+      { templateId: body.templateId ?? 'draft', n },
       body.body,
       sha256Text(body.body),
     );

@@ -251,7 +251,7 @@ export type PreviewDto =
 
 export function previewTemplate(
   m: string,
-  input: { key: string; body: string; modelVersionId: string },
+  input: { key: string; body: string; modelVersionId: string; templateId?: string },
 ): Promise<PreviewDto> {
   return api<PreviewDto>(`${base(m)}/templates/preview`, { method: 'POST', body: input });
 }

@@ -92,6 +92,14 @@ export class PreviewDto {
     message: 'preset must be single, one-and-half or double.',
   })
   preset?: string;
+
+  @ApiPropertyOptional({
+    description: 'the stored template being edited: the draft is numbered as its next version',
+  })
+  @IsOptional()
+  @IsString()
+  @MaxLength(80)
+  templateId?: string;
 }
 
 export class FigureQueryDto {

@@ -203,7 +203,12 @@ function Editor({
     if (!editable || !versionId || !body) return;
     let cancelled = false;
     const timer = setTimeout(() => {
-      previewTemplate(manuscriptId, { key: template.key, body, modelVersionId: versionId })
+      previewTemplate(manuscriptId, {
+        key: template.key,
+        body,
+        modelVersionId: versionId,
+        templateId: template.id,
+      })
         .then((p) => {
           if (cancelled) return;
           setPreview(p);
@@ -215,7 +220,7 @@ function Editor({
       cancelled = true;
       clearTimeout(timer);
     };
-  }, [body, editable, versionId, manuscriptId, template.key]);
+  }, [body, editable, versionId, manuscriptId, template.key, template.id]);
 
   if (version.isPending) return <Loading label="Opening the version…" />;
   if (version.isError) return <Problem error={version.error} />;
