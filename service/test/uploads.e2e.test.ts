@@ -184,6 +184,37 @@ describe('refusals', () => {
     expect(storedBlobs()).toContain(sha256(fixture('1A7G.cif')));
   });
 
+  test('an archived manuscript takes no new version until it is restored', async () => {
+    const auth = { Authorization: `Bearer ${owner.token}` };
+    await request(t.server).post(`/api/manuscripts/${manuscriptId}/archive`).set(auth).expect(200);
+    const res = await upload(t, owner, manuscriptId, fixture('4CUP.cif'), '4CUP.cif').expect(409);
+    expect(res.body.message).toMatch(/archived.*restore it first/);
+    await request(t.server).post(`/api/manuscripts/${manuscriptId}/restore`).set(auth).expect(200);
+  });
+
+  test('the report travels as the stored gzip when accepted, as plain JSON otherwise', async () => {
+    const list = await request(t.server)
+      .get(`/api/manuscripts/${manuscriptId}/models`)
+      .set('Authorization', `Bearer ${owner.token}`)
+      .expect(200);
+    const v = (list.body as ModelVersionDto[]).find((x) => x.filename === '1A8O.cif')!;
+    const path = `/api/manuscripts/${manuscriptId}/models/${v.id}/report`;
+    const zipped = await request(t.server)
+      .get(path)
+      .set('Authorization', `Bearer ${owner.token}`)
+      .set('Accept-Encoding', 'gzip')
+      .expect(200);
+    expect(zipped.headers['content-encoding']).toBe('gzip');
+    const plain = await request(t.server)
+      .get(path)
+      .set('Authorization', `Bearer ${owner.token}`)
+      .set('Accept-Encoding', 'identity')
+      .expect(200);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body).toEqual(zipped.body);
+    expect(createHash('sha256').update(plain.text).digest('hex')).toBe(v.analysis?.reportSha256);
+  });
+
   test('a request without a file gets a sentence', async () => {
     const res = await request(t.server)
       .post(`/api/manuscripts/${manuscriptId}/models`)

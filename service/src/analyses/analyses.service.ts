@@ -108,6 +108,21 @@ export class AnalysesService implements OnApplicationBootstrap, OnModuleDestroy 
     return this.analyses.findOneBy({ modelVersionId });
   }
 
+  /** The stored gzip of the report JSON, exactly as the worker wrote it. */
+  async reportGzip(modelVersionId: string): Promise<Buffer> {
+    const row = await this.analyses
+      .createQueryBuilder('a')
+      .addSelect('a.reportGz')
+      .where('a.modelVersionId = :id', { id: modelVersionId })
+      .getOne();
+    if (!row || row.status !== 'done' || !row.reportGz) {
+      throw new NotFoundException(
+        'This version has no finished analysis yet. Wait for the progress bar to complete, or re-upload if it failed.',
+      );
+    }
+    return row.reportGz;
+  }
+
   async report(modelVersionId: string): Promise<Report> {
     const row = await this.analyses
       .createQueryBuilder('a')

@@ -1,7 +1,8 @@
 import { Controller, Get, Param, ParseUUIDPipe, Post, Req, Res } from '@nestjs/common';
 import { ApiBearerAuth, ApiConsumes, ApiTags } from '@nestjs/swagger';
 import type { Request, Response } from 'express';
-import type { AnalysisDto, ModelVersionDto, Report } from '@foldfolio/shared';
+import { gunzipSync } from 'node:zlib';
+import type { AnalysisDto, ModelVersionDto } from '@foldfolio/shared';
 import { CurrentUser } from '../common/request-user.js';
 import { AnyMember, ManuscriptRoles } from '../manuscripts/manuscript-roles.js';
 import { User } from '../users/user.entity.js';
@@ -55,15 +56,30 @@ export class ModelsController {
     return analysisDto(await this.analyses.get(versionId));
   }
 
-  /** The full report (foldfolio.report/1) of a finished analysis. */
+  /**
+   * The full report (foldfolio.report/1) of a finished analysis. Sent as the stored gzip when the
+   * client accepts it (browsers do), so a large report is neither re-parsed nor re-compressed.
+   */
   @AnyMember()
   @Get(':versionId/report')
   async report(
     @Param('manuscriptId') manuscriptId: string,
     @Param('versionId', ParseUUIDPipe) versionId: string,
-  ): Promise<Report> {
+    @Req() req: Request,
+    @Res() res: Response,
+  ): Promise<void> {
     await this.models.findVersion(manuscriptId, versionId);
-    return this.analyses.report(versionId);
+    const gz = await this.analyses.reportGzip(versionId);
+    res.setHeader('Content-Type', 'application/json; charset=utf-8');
+    res.setHeader('Vary', 'Accept-Encoding');
+    // a version's report never changes: private caching is safe
+    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
+    if (/\bgzip\b/.test(String(req.headers['accept-encoding'] ?? ''))) {
+      res.setHeader('Content-Encoding', 'gzip');
+      res.send(gz);
+    } else {
+      res.send(gunzipSync(gz));
+    }
   }
 
   /** The uploaded file itself, byte for byte. */

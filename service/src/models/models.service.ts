@@ -44,6 +44,13 @@ export class ModelsService {
   ) {}
 
   async upload(manuscriptId: string, user: User, req: Request): Promise<ModelVersionDto> {
+    const ms = await this.db.getRepository(Manuscript).findOneBy({ id: manuscriptId });
+    if (ms?.status === 'archived') {
+      req.resume(); // drain the upload so the client receives this answer
+      throw new ConflictException(
+        'This manuscript is archived, so it takes no new versions. An owner can restore it first.',
+      );
+    }
     let parsed;
     try {
       parsed = await receiveUpload(req, this.store, this.storage.uploadLimitBytes);
