@@ -27,6 +27,7 @@ import {
   addRidingHydrogens,
   El,
   OVERLAP_XH_CONVENTION,
+  XH_LENGTHS_A,
   type AllAtomModel,
   type XhConvention,
 } from './hydrogens';
@@ -42,6 +43,30 @@ export const BONDI_RADII_A: Readonly<Record<number, number>> = {
   [El.P]: 1.8,
 };
 
+/** The 20 standard amino acids (common practice, no source). */
+const STANDARD_AMINO_ACIDS = new Set([
+  'ALA',
+  'ARG',
+  'ASN',
+  'ASP',
+  'CYS',
+  'GLN',
+  'GLU',
+  'GLY',
+  'HIS',
+  'ILE',
+  'LEU',
+  'LYS',
+  'MET',
+  'PHE',
+  'PRO',
+  'SER',
+  'THR',
+  'TRP',
+  'TYR',
+  'VAL',
+]);
+
 /** Covalent radii, Å (Cordero et al. 2008, Dalton Trans 2832; from memory), by El code. */
 const COVALENT_RADII_A: Readonly<Record<number, number>> = {
   [El.H]: 0.31,
@@ -55,8 +80,21 @@ const COVALENT_RADII_A: Readonly<Record<number, number>> = {
 const BOND_TOLERANCE_A = 0.4; // common practice, no source
 
 export const SEVERE_OVERLAP_A = 0.4; // Word et al. 1999
+/** pairs at most this many bonds apart are never overlaps (1–2, 1–3, 1–4) */
+export const EXCLUDED_BONDS = 3;
+/** the same for pairs with a hydrogen (1–5 too; Word et al. 1999, from memory) */
+export const H_EXCLUDED_BONDS = 4;
 export const HBOND_H_ALLOWANCE_A = 0.8; // our choice, see header
 export const HBOND_HEAVY_ALLOWANCE_A = 0.5; // our choice, see header
+/**
+ * O···C pairs four bonds apart (1–5) are set by two torsions and are short in ordinary
+ * structures: O(i)···C(i+1) across the peptide in helices and Asn/Asp OD1···C within a residue
+ * (the n→π* contact, about 2.8–3.0 Å, Bartlett et al. 2010 Nat Chem Biol 6:615, from memory;
+ * measured 2.69–2.80 Å in 1EJG at 0.54 Å, 2.68 Å in 1OLR Asn 99). The classic hard-sphere outer
+ * limit for O···C is 2.7 Å (Ramachandran & Sasisekharan 1968, SCIENCE.md), 0.52 Å inside the
+ * Bondi sum: our allowance 0.5 Å, the same as for N/O···N/O.
+ */
+export const CARBONYL_1_5_ALLOWANCE_A = 0.5;
 
 export interface OverlapPair {
   a: number;
@@ -96,6 +134,83 @@ class IntList {
   }
 }
 
+/** Largest distance from a deposited H to its parent heavy atom (common practice, no source). */
+const H_PARENT_MAX_A = 1.3;
+/** Largest distance from a C to a bonded heavy atom, to tell sp3 C–H from sp2 C–H. */
+const C_HEAVY_BOND_MAX_A = 1.75; // C–S 1.82 is not needed: C–H parents with S are sp3 anyway
+
+/**
+ * Deposited hydrogens come at either X–H convention (1EJG's at nuclear lengths, C–H 1.10 Å
+ * measured with gemmi; 1OLR's at electron-cloud lengths): each is moved along its bond to the
+ * length the analysis uses for added H, so both kinds meet the same radii (a nuclear C–H is
+ * 0.12 Å longer, which turns ordinary H···H contacts into "severe" overlaps). The H keeps its
+ * direction (a refined methyl or hydroxyl orientation stays as deposited). Returns 1 per moved
+ * atom. Parent: the nearest heavy atom within 1.3 Å of a compatible altloc.
+ */
+function rescaleDepositedHydrogens(
+  conv: XhConvention,
+  hyd: IntList,
+  heavyGrid: ReturnType<typeof buildCellGrid>,
+  xs: Float64Array,
+  ys: Float64Array,
+  zs: Float64Array,
+  el: Uint8Array,
+  alt: Int32Array,
+  fromModel: Uint8Array,
+): Uint8Array {
+  const m = xs.length;
+  const moved = new Uint8Array(m);
+  const parentOf = new Int32Array(hyd.length).fill(-1);
+  const hCount = new Map<number, number>();
+  for (let q = 0; q < hyd.length; q++) {
+    const h = hyd.data[q];
+    if (fromModel[h] !== 1) continue;
+    let best = -1;
+    let bestD2 = H_PARENT_MAX_A * H_PARENT_MAX_A;
+    forEachWithin(heavyGrid, xs[h], ys[h], zs[h], H_PARENT_MAX_A, (a, d2) => {
+      if (alt[h] !== 0 && alt[a] !== 0 && alt[h] !== alt[a]) return;
+      if (d2 < bestD2 || (d2 === bestD2 && a < best)) {
+        best = a;
+        bestD2 = d2;
+      }
+    });
+    parentOf[q] = best;
+    if (best >= 0) hCount.set(best, (hCount.get(best) ?? 0) + 1);
+  }
+  const t = XH_LENGTHS_A[conv];
+  for (let q = 0; q < hyd.length; q++) {
+    const h = hyd.data[q];
+    const p = parentOf[q];
+    if (p < 0) continue;
+    let len: number;
+    if (el[p] === El.N) len = t.N;
+    else if (el[p] === El.O) len = t.O;
+    else if (el[p] === El.S || el[p] === El.Se) len = t.S;
+    else if (el[p] === El.C) {
+      const nh = hCount.get(p) ?? 0;
+      if (nh >= 3) len = t['C-methyl'];
+      else if (nh === 2) len = t['C-tet2'];
+      else {
+        let heavyNb = 0;
+        forEachWithin(heavyGrid, xs[p], ys[p], zs[p], C_HEAVY_BOND_MAX_A, (a) => {
+          if (a !== p && (alt[p] === 0 || alt[a] === 0 || alt[p] === alt[a])) heavyNb++;
+        });
+        len = heavyNb >= 3 ? t['C-tet1'] : t['C-tri1'];
+      }
+    } else continue;
+    const dx = xs[h] - xs[p];
+    const dy = ys[h] - ys[p];
+    const dz = zs[h] - zs[p];
+    const d = Math.hypot(dx, dy, dz);
+    if (d === 0) continue;
+    xs[h] = xs[p] + (dx / d) * len;
+    ys[h] = ys[p] + (dy / d) * len;
+    zs[h] = zs[p] + (dz / d) * len;
+    moved[h] = 1;
+  }
+  return moved;
+}
+
 export function analyzeOverlaps(
   structure: Structure,
   model: Model,
@@ -108,9 +223,18 @@ export function analyzeOverlaps(
   const kind = model.residues.kind;
   // atoms taking part
   const subset = new IntList();
+  // occupancy of each all-atom entry (added H: their parent's)
+  const occOf = (i: number): number =>
+    model.atoms.occupancy[i < all.modelAtoms ? i : all.parent[i]];
   for (let i = 0; i < n; i++) {
     if (all.element[i] === El.Other) continue;
     if (kind[all.residue[i]] === ResidueKind.Ion) continue;
+    // zero occupancy: the depositor says the atom is not there (common practice, no source)
+    if (occOf(i) <= 0) continue;
+    // Water hydrogens: X-ray data rarely fix a water's orientation, and written ones point
+    // anywhere (1OLR: water H 1.1–1.3 Å from amide H). The water O stands for the molecule and
+    // meets donors and acceptors with the H-bond allowances.
+    if (all.element[i] === El.H && kind[all.residue[i]] === ResidueKind.Water) continue;
     subset.push(i);
   }
   const sub = subset.data.subarray(0, subset.length);
@@ -140,6 +264,17 @@ export function analyzeOverlaps(
   }
   const fromModel = new Uint8Array(m);
   for (let k = 0; k < m; k++) fromModel[k] = perm[k] < all.modelAtoms ? 1 : 0;
+  // 1 for partially occupied atoms (occupancy < 1), 1 for water atoms
+  const partial = new Uint8Array(m);
+  const water = new Uint8Array(m);
+  for (let k = 0; k < m; k++) {
+    partial[k] = occOf(perm[k]) < 1 ? 1 : 0;
+    water[k] = kind[res[k]] === ResidueKind.Water ? 1 : 0;
+  }
+  // Standard residue names: links between these are peptide C–N and S–S only.
+  const stdRes = new Uint8Array(model.residues.count);
+  for (let r = 0; r < model.residues.count; r++)
+    stdRes[r] = STANDARD_AMINO_ACIDS.has(structure.strings[model.residues.name[r]]) ? 1 : 0;
 
   // One pass over pairs within the largest severe-contact distance: record covalent bonds
   // (distance rule) and candidate overlaps (raw overlap ≥ the severe threshold).
@@ -160,6 +295,11 @@ export function analyzeOverlaps(
     }
   const visit = (i: number, j: number, d2: number): void => {
     if (alt[i] !== 0 && alt[j] !== 0 && alt[i] !== alt[j]) return;
+    // A water next to a partially occupied atom (or a partially occupied water) is an
+    // alternative site: of another water (often written without altloc ids, e.g. 1OLR HOH
+    // 2140/2142, 0.7 Å apart) or of a side-chain conformer (1OLR HOH 2126, 1.3 Å from Lys 69
+    // NZ of altloc A at occupancy 0.6). Such pairs are never present together.
+    if ((water[i] === 1 || water[j] === 1) && (partial[i] === 1 || partial[j] === 1)) return;
     const pe = el[i] * 8 + el[j];
     if (d2 < bondLim2[pe] && fromModel[i] === 1 && fromModel[j] === 1) {
       // added H bond only to their parent (below)
@@ -178,7 +318,10 @@ export function analyzeOverlaps(
         else if (ki === ResidueKind.Protein && kj === ResidueKind.Protein) {
           const peptide = (ei === El.C && ej === El.N) || (ei === El.N && ej === El.C);
           const disulfide = ei === El.S && ej === El.S;
-          if (!peptide && !disulfide) bonded = false;
+          // non-standard residues link through side chains too (esters and thioethers of
+          // cyclic depsipeptides, e.g. 1PFE)
+          const standard = stdRes[ri] === 1 && stdRes[rj] === 1;
+          if (!peptide && !disulfide && standard) bonded = false;
         }
       }
       if (bonded) {
@@ -201,6 +344,13 @@ export function analyzeOverlaps(
   const heavyIdx = heavy.data.subarray(0, heavy.length);
   const hIdx = hyd.data.subarray(0, hyd.length);
   const heavyGrid = buildCellGrid(xs, ys, zs, { subset: heavyIdx, cellSizeA: maxContact });
+  const rescaled = rescaleDepositedHydrogens(conv, hyd, heavyGrid, xs, ys, zs, el, alt, fromModel);
+  for (let k = 0; k < m; k++)
+    if (rescaled[k] === 1) {
+      all.x[perm[k]] = xs[k];
+      all.y[perm[k]] = ys[k];
+      all.z[perm[k]] = zs[k];
+    }
   forEachPairWithin(heavyGrid, maxContact, visit);
   const hHeavyCut = BONDI_RADII_A[El.H] + BONDI_RADII_A[El.Se] - severeA;
   const hHCut = 2 * BONDI_RADII_A[El.H] - severeA;
@@ -235,14 +385,28 @@ export function analyzeOverlaps(
     adj[fill[a]++] = b;
     adj[fill[b]++] = a;
   }
-  const within3 = (i: number, j: number): boolean => {
-    for (let p = adjStart[i]; p < adjStart[i + 1]; p++) {
-      const a = adj[p];
-      if (a === j) return true;
-      for (let q = adjStart[a]; q < adjStart[a + 1]; q++) {
-        const b = adj[q];
-        if (b === j) return true;
-        for (let s = adjStart[b]; s < adjStart[b + 1]; s++) if (adj[s] === j) return true;
+  /** true when j is at most `maxBonds` bonds from i (breadth-first over the bond graph) */
+  const seen = new Int32Array(m).fill(-1);
+  const queue = new Int32Array(m);
+  let stamp = 0;
+  const withinBonds = (i: number, j: number, maxBonds: number): boolean => {
+    stamp++;
+    let head = 0;
+    let tail = 0;
+    queue[tail++] = i;
+    seen[i] = stamp;
+    for (let depth = 0; depth < maxBonds; depth++) {
+      const end = tail;
+      for (; head < end; head++) {
+        const a = queue[head];
+        for (let p = adjStart[a]; p < adjStart[a + 1]; p++) {
+          const b = adj[p];
+          if (b === j) return true;
+          if (seen[b] !== stamp) {
+            seen[b] = stamp;
+            queue[tail++] = b;
+          }
+        }
       }
     }
     return false;
@@ -255,12 +419,18 @@ export function analyzeOverlaps(
     return false;
   };
   const isNO = (e: number) => e === El.N || e === El.O;
+  const isOC = (i: number, j: number): boolean =>
+    (el[i] === El.O && el[j] === El.C) || (el[i] === El.C && el[j] === El.O);
 
   const severe: OverlapPair[] = [];
   for (let c = 0; c < candA.length; c++) {
     const i = candA.data[c];
     const j = candB.data[c];
-    if (within3(i, j)) continue;
+    // Pairs up to three bonds apart never count; with a hydrogen, up to four (an H's position
+    // follows its parent, so an H four bonds from an atom is set by one torsion of the parent's
+    // framework: Word et al. 1999 extend the exclusion to four bonds for H, from memory).
+    if (withinBonds(i, j, el[i] === El.H || el[j] === El.H ? H_EXCLUDED_BONDS : EXCLUDED_BONDS))
+      continue;
     const d = Math.hypot(xs[i] - xs[j], ys[i] - ys[j], zs[i] - zs[j]);
     const raw = BONDI_RADII_A[el[i]] + BONDI_RADII_A[el[j]] - d;
     let allowance = 0;
@@ -270,6 +440,7 @@ export function analyzeOverlaps(
     )
       allowance = HBOND_H_ALLOWANCE_A;
     else if (isNO(el[i]) && isNO(el[j])) allowance = HBOND_HEAVY_ALLOWANCE_A;
+    else if (isOC(i, j) && withinBonds(i, j, 4)) allowance = CARBONYL_1_5_ALLOWANCE_A;
     const ov = raw - allowance;
     if (ov >= severeA) {
       const a = perm[i];
