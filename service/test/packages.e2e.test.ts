@@ -330,3 +330,90 @@ test('the verify upload: passes on the package, names a tampered file, refuses a
     .attach('package', anon.zip, 'p.zip')
     .expect(401);
 }, 60000);
+
+test("the manuscript's pinned template version and saved methods form go into the package and verify", async () => {
+  // a saved torsion-plot version pinned by the manuscript, and the authors' form entries
+  const { readFileSync } = await import('node:fs');
+  const { join } = await import('node:path');
+  const { REPO } = await import('./helpers/workflow.js');
+  const spec = JSON.parse(
+    readFileSync(join(REPO, 'templates/figures/torsion-plot/spec.vl.json'), 'utf8'),
+  ) as Record<string, unknown>;
+  const body = JSON.stringify(
+    { ...spec, description: 'Quillfeather edit of the torsion plot' },
+    null,
+    2,
+  );
+  const tid = '11111111-2222-4333-8444-555555555555';
+  await t.db.query(
+    `INSERT INTO templates (id, kind, template_key, name, scope, manuscript_id, forked_from, created_by)
+     VALUES (?, 'figure', 'torsion-plot', 'Torsions (edited)', 'manuscript', ?, 'builtin:torsion-plot@1', ?)`,
+    [tid, manuscriptId, owner.id],
+  );
+  await t.db.query(
+    `INSERT INTO template_versions (template_id, n, body, sha256, author_id, author_name, message)
+     VALUES (?, 2, ?, ?, ?, 'x', 'edit')`,
+    [tid, body, createHash('sha256').update(body).digest('hex'), owner.id],
+  );
+  await t.db.query(
+    "INSERT INTO template_pins (manuscript_id, template_key, template_id, n, pinned_by) VALUES (?, 'torsion-plot', ?, 2, ?)",
+    [manuscriptId, tid, owner.id],
+  );
+  await t.db.query(
+    'INSERT INTO methods_forms (model_version_id, manuscript_id, values_json, updated_by) VALUES (?, ?, ?, ?)',
+    [versionId, manuscriptId, JSON.stringify({ multiplicity: 6.5 }), owner.id],
+  );
+  const pinned = await buildAndWait({
+    modelVersionIds: [versionId],
+    includeModel: true,
+    anonymise: true,
+  });
+  const files = await readZip(pinned.zip);
+  expect(files.get('templates/figures/torsion-plot/spec.vl.json')!.toString('utf8')).toBe(body);
+  const manifest = JSON.parse(files.get('manifest.json')!.toString('utf8')) as {
+    inputs: { key: string; version: string; pinned?: string }[];
+  };
+  const input = manifest.inputs.find((i) => i.key === 'figure-template:torsion-plot')!;
+  expect(input).toMatchObject({ version: '2', pinned: `${tid}@2` });
+  // the pinned spec's description reaches the SVG, the form value reaches every table format
+  expect(
+    files
+      .get('v1/figures/torsion-plot.svg')!
+      .equals((await readZip(anon.zip)).get('v1/figures/torsion-plot.svg')!),
+  ).toBe(false);
+  expect(JSON.parse(files.get('v1/methods-form.json')!.toString('utf8'))).toEqual({
+    multiplicity: 6.5,
+  });
+  // the unpinned package shows no multiplicity (the file has none); this one shows the form's
+  const rowOf = (text: string) => text.split('\n').find((l) => l.includes('Multiplicity')) ?? '';
+  expect(
+    rowOf((await readZip(anon.zip)).get('v1/tables/methods-xray.md')!.toString('utf8')),
+  ).not.toContain('6.5');
+  for (const ext of ['md', 'csv', 'tex', 'html'])
+    expect(rowOf(files.get(`v1/tables/methods-xray.${ext}`)!.toString('utf8'))).toContain('6.5');
+  const r = await verifyPackage(pinned.zip);
+  expect(r.files.filter((f) => f.status !== 'identical')).toEqual([]);
+  // a changed form in the package: the tables depending on it are reported
+  files.set(
+    'v1/methods-form.json',
+    Buffer.from(JSON.stringify({ multiplicity: 3.25 }, null, 2) + '\n'),
+  );
+  const r2 = await verifyPackage(await writeZip(files));
+  const bad = r2.files.filter((f) => f.status !== 'identical').map((f) => f.path);
+  expect(bad).toEqual(
+    expect.arrayContaining([
+      'v1/methods-form.json',
+      'v1/tables/methods-xray.md',
+      'v1/tables/methods-xray.csv',
+    ]),
+  );
+  expect(
+    bad.every(
+      (p) =>
+        p === 'v1/methods-form.json' ||
+        p === 'manifest.json' ||
+        p.startsWith('v1/tables/') ||
+        p === 'README.md',
+    ),
+  ).toBe(true);
+}, 60000);

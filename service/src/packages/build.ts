@@ -31,6 +31,7 @@ import {
   type TableManifest,
   type TableTemplate,
 } from '../tables/render.js';
+import type { MethodsForm } from '../tables/values.js';
 import { readZip, writeZip, ZIP_SETTINGS } from './zip.js';
 
 export const PACKAGE_SCHEMA = 'foldfolio.package/1';
@@ -61,10 +62,20 @@ export interface PackageInput {
   onProgress?: (fraction: number, step: string) => void;
   /** templates to draw with (verify passes the ones inside the package); default: built-in */
   templates?: TemplateSet;
+  /** the methods-table form of each version (by version number), as saved by the authors */
+  forms?: Map<number, MethodsForm>;
 }
 
 export type FileKind =
-  'readme' | 'model' | 'report' | 'residues' | 'figure' | 'figure-data' | 'table' | 'template';
+  | 'readme'
+  | 'model'
+  | 'report'
+  | 'residues'
+  | 'figure'
+  | 'figure-data'
+  | 'table'
+  | 'template'
+  | 'form';
 
 export interface ManifestFile {
   path: string;
@@ -78,7 +89,7 @@ export interface ManifestFile {
 
 export interface ManifestInput {
   key: string;
-  kind: 'model' | 'figure-template' | 'table-template' | 'preset' | 'reference' | 'engine';
+  kind: 'model' | 'figure-template' | 'table-template' | 'preset' | 'reference' | 'engine' | 'form';
   id: string;
   version: string;
   sha256: string;
@@ -86,6 +97,8 @@ export interface ManifestInput {
   path?: string;
   /** model inputs: the uploaded name, left out when anonymised */
   filename?: string;
+  /** template inputs: the saved version a manuscript pinned ("<template id>@<n>"), if any */
+  pinned?: string;
   sizeBytes?: number;
 }
 
@@ -499,12 +512,38 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
       throw new PackageBuildError(
         `The methods table template "${tableId}" is not available; add it to the templates folder (or the package).`,
       );
+    // the authors' form entries travel with the package (an input, not an output)
+    const form = input.forms?.get(m.n);
+    const tdeps = [key, `table-template:${tableId}`, 'engine'];
+    if (form && Object.keys(form).length > 0) {
+      const formBytes = Buffer.from(
+        JSON.stringify(form, Object.keys(form).sort(), 2) + '\n',
+        'utf8',
+      );
+      const formPath = `${dir}/methods-form.json`;
+      inputs.push({
+        key: `form:v${m.n}`,
+        kind: 'form',
+        id: `v${m.n}`,
+        version: String(m.n),
+        sha256: sha256(formBytes),
+        path: formPath,
+      });
+      entries.push({
+        path: formPath,
+        kind: 'form',
+        bytes: formBytes,
+        dependsOn: [`form:v${m.n}`],
+        description: `the methods-table form entries of version ${m.n} (values the authors typed in).`,
+      });
+      tdeps.push(`form:v${m.n}`);
+    }
     const table = renderTableHtml({
       report,
       experiment,
+      form: form ?? {},
       template: tableTemplateOf(tableId, tableFolder),
     });
-    const tdeps = [key, `table-template:${tableId}`, 'engine'];
     const tstem = `${dir}/tables/${tableId}`;
     const tdesc = `the methods table (${tableId})`;
     entries.push({
@@ -569,6 +608,7 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
       const dirPath = `templates/${kind === 'figure' ? 'figures' : 'tables'}/${id}/`;
       const manifest = JSON.parse(folder.get('manifest.json')?.toString('utf8') ?? '{}') as {
         version?: number;
+        pinned?: string;
       };
       inputs.push({
         key,
@@ -577,6 +617,7 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
         version: String(manifest.version ?? '?'),
         sha256: folderSha(folder),
         path: dirPath,
+        ...(manifest.pinned ? { pinned: manifest.pinned } : {}),
       });
       for (const [f, bytes] of folder)
         templateEntries.push({
@@ -591,7 +632,8 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
   if (used.has(`preset:${PACKAGE_PRESET}`)) inputs.push(presetInput());
   entries.push(...templateEntries);
   for (const e of entries)
-    if (e.kind !== 'model' && e.kind !== 'template' && ref) e.dependsOn.push('reference');
+    if (e.kind !== 'model' && e.kind !== 'template' && e.kind !== 'form' && ref)
+      e.dependsOn.push('reference');
 
   const head: Omit<Manifest, 'files'> = {
     schema: PACKAGE_SCHEMA,
@@ -681,4 +723,29 @@ export async function normaliseDocx(docx: Buffer): Promise<Buffer> {
       ),
     );
   return writeZip(parts);
+}
+
+/**
+ * A template folder for a saved (pinned) version: the built-in slot's manifest with the saved
+ * version number and reference, and the saved body as the spec or Handlebars source.
+ */
+export function pinnedFolder(
+  kind: 'figure' | 'table',
+  builtin: TemplateFolder,
+  pinned: { ref: string; n: number; body: string },
+): TemplateFolder {
+  const manifest = JSON.parse(builtin.get('manifest.json')!.toString('utf8')) as Record<
+    string,
+    unknown
+  >;
+  const out: TemplateFolder = new Map();
+  out.set(
+    'manifest.json',
+    Buffer.from(
+      JSON.stringify({ ...manifest, version: pinned.n, pinned: pinned.ref }, null, 2) + '\n',
+      'utf8',
+    ),
+  );
+  out.set(kind === 'figure' ? 'spec.vl.json' : 'template.hbs', Buffer.from(pinned.body, 'utf8'));
+  return out;
 }

@@ -15,6 +15,7 @@ import {
   type Manifest,
   type PackageModelInput,
 } from './build.js';
+import type { MethodsForm } from '../tables/values.js';
 import { DEFAULT_READ_LIMITS, readZip, type ReadLimits } from './zip.js';
 
 export type FileStatus = 'identical' | 'different' | 'missing' | 'unexpected' | 'not-recomputed';
@@ -166,6 +167,25 @@ export async function verifyPackage(
     }
     target.set(i.id, folder);
   }
+  // the authors' methods-form entries, as recorded in the package
+  const forms = new Map<number, MethodsForm>();
+  for (const i of manifest.inputs.filter((x) => x.kind === 'form')) {
+    const b = i.path ? entries.get(i.path) : undefined;
+    if (!b) continue;
+    if (sha256(b) !== i.sha256) {
+      changed.add(i.key);
+      inputNotes.push(
+        `The methods form of version ${i.version} is not the one recorded in manifest.json; the tables are recomputed with the changed copy.`,
+      );
+    }
+    try {
+      forms.set(Number(i.version), JSON.parse(b.toString('utf8')) as MethodsForm);
+    } catch {
+      inputNotes.push(
+        `The methods form of version ${i.version} is not valid JSON; the tables are recomputed without it.`,
+      );
+    }
+  }
   const preset = presetInput();
   for (const i of manifest.inputs.filter((x) => x.kind === 'preset')) {
     if (i.key !== preset.key || i.sha256 !== preset.sha256) {
@@ -207,6 +227,7 @@ export async function verifyPackage(
       anonymise: manifest.anonymised,
       preparedBy: manifest.preparedBy,
       templates: set,
+      forms,
     });
     const deps = new Map(manifest.files.map((f) => [f.path, f.dependsOn]));
     const all = new Set([...rebuilt.files.keys(), ...manifest.files.map((f) => f.path)]);

@@ -8,7 +8,14 @@ import type { BlobStore } from '../storage/blob-store.js';
 import { FsBlobStore } from '../storage/fs-blob-store.js';
 import { storageSettings } from '../storage/storage.module.js';
 import { newId } from '../common/tokens.js';
-import { buildPackage, PackageBuildError } from './build.js';
+import type { MethodsForm } from '../tables/values.js';
+import {
+  buildPackage,
+  builtinTemplateSet,
+  PackageBuildError,
+  pinnedFolder,
+  type TemplateSet,
+} from './build.js';
 import { PACKAGE_QUEUE, type PackageJobData } from './queue.js';
 
 export interface RunningPackageWorker {
@@ -27,6 +34,51 @@ async function audit(
     'INSERT INTO package_audit_events (id, manuscript_id, package_id, action, detail) VALUES (?, ?, ?, ?, ?)',
     [newId(), manuscriptId, packageId, action, detail.slice(0, 300)],
   );
+}
+
+/**
+ * The manuscript's pinned template versions (built-in where nothing is pinned) and the saved
+ * methods-form entries of each chosen version (tables of the templates module, issue 5).
+ */
+export async function manuscriptTemplates(
+  db: DataSource,
+  manuscriptId: string,
+  versions: { id: string; n: number }[],
+): Promise<{ templates: TemplateSet; forms: Map<number, MethodsForm> }> {
+  const templates = builtinTemplateSet();
+  const pins = (await db.query(
+    `SELECT p.template_key, p.template_id, p.n, v.body FROM template_pins p
+       JOIN template_versions v ON v.template_id = p.template_id AND v.n = p.n
+     WHERE p.manuscript_id = ?`,
+    [manuscriptId],
+  )) as { template_key: string; template_id: string; n: number; body: string }[];
+  for (const p of pins) {
+    const ref = `${p.template_id}@${p.n}`;
+    const fig = templates.figures.get(p.template_key);
+    const tab = templates.tables.get(p.template_key);
+    if (fig)
+      templates.figures.set(
+        p.template_key,
+        pinnedFolder('figure', fig, { ref, n: p.n, body: p.body }),
+      );
+    else if (tab)
+      templates.tables.set(
+        p.template_key,
+        pinnedFolder('table', tab, { ref, n: p.n, body: p.body }),
+      );
+  }
+  const forms = new Map<number, MethodsForm>();
+  if (versions.length) {
+    const rows = (await db.query(
+      `SELECT model_version_id, values_json FROM methods_forms WHERE model_version_id IN (${versions.map(() => '?').join(',')})`,
+      versions.map((v) => v.id),
+    )) as { model_version_id: string; values_json: string }[];
+    for (const r of rows) {
+      const v = versions.find((x) => x.id === r.model_version_id);
+      if (v) forms.set(v.n, JSON.parse(r.values_json) as MethodsForm);
+    }
+  }
+  return { templates, forms };
 }
 
 /** Builds one package: model bytes from the store, zip back into it, progress on the row. */
@@ -75,6 +127,8 @@ export async function processPackage(
   for (const v of versions)
     models.push({ n: v.n, filename: v.filename, bytes: await store.read(v.sha256) });
 
+  const { templates, forms } = await manuscriptTemplates(db, manuscriptId, versions);
+
   let lastWrite = 0;
   const onProgress = (fraction: number, step: string) => {
     const now = Date.now();
@@ -107,6 +161,8 @@ export async function processPackage(
         ...comments.flatMap((c) => c.body_md.split('\n')).filter((l) => l.trim().length >= 12),
       ],
       onProgress,
+      templates,
+      forms,
     });
   } catch (err) {
     if (err instanceof PackageBuildError || (err as Error).name === 'StructureReadError')
