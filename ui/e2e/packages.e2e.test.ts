@@ -134,13 +134,26 @@ test('freeze → reviewer link in a fresh context → download → verify passes
   expect(run.stdout).toMatch(/0 different, 0 missing, 0 unexpected, 0 not recomputed: VERIFIED/);
   expect(run.status).toBe(0);
 
+  // the same bytes on the Verify page (signed in): every file identical
+  await page.goto('/verify');
+  await page.getByLabel('Package zip').setInputFiles(zipPath);
+  await page.getByTestId('verify-run').click();
+  await page.getByTestId('verify-result').waitFor({ timeout: 60_000 });
+  await page.getByText('Every file is as recorded').waitFor();
+  expect(
+    await page
+      .locator('[data-testid="verify-result"] tr[data-status]:not([data-status="identical"])')
+      .count(),
+  ).toBe(0);
+  await shot(page, 'packages-04-verify');
+
   // the owner's access log shows the reviewer's visit and download
-  await page.reload();
+  await page.goto(`/manuscripts/${ms.id}/review-packages`);
   await page.getByText(/Access log/).click();
   const log = page.getByTestId('package-audit');
   await log.getByText('reviewer opened the link').first().waitFor();
   await log.getByText('reviewer downloaded the package').first().waitFor();
-  await shot(page, 'packages-04-access-log');
+  await shot(page, 'packages-05-access-log');
   await rctx.close();
   await ctx.close();
 }, 150_000);
