@@ -15,6 +15,9 @@ import * as path from 'path';
 import { buildReport } from '../src/report/build';
 import type { Report, ResidueRow } from '../src/report/types';
 import shipped from '../src/reference/data/reference.json';
+import { defaultReference } from '../src/reference';
+import { evaluateSteric, stericKindFor, stericStatusAt } from '../src/validation/steric';
+import { STERIC_TAU_MAX_DEG } from '../src/validation/verdict-analyses';
 
 const FIX = path.join(__dirname, 'fixtures');
 // every fixture that is a readable model with a full backbone (bad inputs and the CA-only
@@ -152,6 +155,36 @@ describe('Ramachandran, rotamer, steric and overlap fields', () => {
         }
       }
     }
+  });
+
+  it("steric status: the τ = 110° map, re-judged at the residue's own τ only where it says disallowed", () => {
+    // classic fact (SCIENCE.md): widening τ enlarges the α region; (−55°, −45°) lies just past
+    // the τ = 110° outer limit (C(i−1)···C(i) < 3.0 Å) and inside it at τ = 113°
+    expect(evaluateSteric('ala', -55, -45, 110).status).toBe('disallowed');
+    expect(evaluateSteric('ala', -55, -45, 113).status).toBe('outer-limit');
+    // (0°, 0°) stays disallowed at any τ up to the 115° cap
+    expect(evaluateSteric('ala', 0, 0, STERIC_TAU_MAX_DEG).status).toBe('disallowed');
+    const maps = defaultReference().steric;
+    let helix = 0;
+    let helixFlagged = 0;
+    for (const f of ['1ejg.pdb.gz', '1A8O.cif', '5i55.cif', '6WQA.cif']) {
+      for (const r of reports.get(f)!.models[0].residues) {
+        if (!r.steric || r.phi === null || r.psi === null) continue;
+        const map = maps[stericKindFor(r.parent ?? r.name)];
+        const atMap = stericStatusAt(map, r.phi, r.psi);
+        // the report only ever relaxes a map 'disallowed'
+        if (r.steric !== atMap) expect(atMap).toBe('disallowed');
+        if (r.ss === 'H') {
+          helix++;
+          if (r.flags.includes('steric-disallowed')) helixFlagged++;
+        }
+      }
+    }
+    // DSSP helices (checked against mkdssp in dssp.test.ts) of these well-refined structures:
+    // the τ = 110° map alone flagged about a fifth of them (measured: 1A8O 15 of 68 residues,
+    // 1EJG 13 of 44); at their own τ few stay outside the outer limit (our bar: < 5 %)
+    expect(helix).toBeGreaterThan(300);
+    expect(helixFlagged / helix).toBeLessThan(0.05);
   });
 
   it('same input gives a byte-identical report', async () => {

@@ -4,13 +4,14 @@
  * MODEL_ANALYSES (per model) and REPORT_ANALYSES (`referenceStep` names the reference version).
  */
 import type { ModelContext, ReportContext } from '../report/build';
-import type { ModelSummary, RamaClass, ResidueFlag } from '../report/types';
+import type { ModelSummary, RamaClass, ResidueFlag, StericStatus } from '../report/types';
 import { ResidueKind } from '../model/types';
 import { MAX_CHI } from './torsions';
 import { defaultReference } from '../reference';
 import { RAMA_CLASSES, ramaClassOf, ramaVerdict } from './ramachandran';
 import { rotamerVerdict } from './rotamer';
-import { stericKindFor, stericStatusAt } from './steric';
+import { evaluateSteric, stericKindFor, stericStatusAt, type StericMap } from './steric';
+import { angleDeg } from '../geometry/vec';
 import { analyzeOverlaps, overlapForReport } from './overlaps';
 
 function flag(ctx: ModelContext, k: number, f: ResidueFlag): void {
@@ -32,6 +33,35 @@ function notComputed(summary: ModelSummary, statistic: string, reason: string): 
 
 const CA_ONLY =
   'The model has CA atoms only: Ramachandran, rotamer, steric and all-atom overlap analyses need the full backbone and side chains.';
+
+/**
+ * The widest τ(N–CA–C) at which a residue is judged: the classic hard-sphere maps were computed
+ * for τ from 105° to 115° (Ramakrishnan & Ramachandran 1965, from memory).
+ */
+export const STERIC_TAU_MAX_DEG = 115;
+
+/**
+ * Hard-sphere status of one residue. The shipped maps are for τ = 110°, where the right-handed
+ * α region ends at phi ≈ −58° (C(i−1)···C(i) reaches the 3.0 Å outer limit; the classic
+ * borderline near (−57°, −47°), SCIENCE.md), so about a fifth of ordinary helical residues fell
+ * outside it although their own τ is wider (mean 112–113.5° among them in 1A8O, 1EJG, 4ZHL,
+ * 6WQA; ideal 111.2°, Engh & Huber 1991) and widening τ enlarges the α region (SCIENCE.md).
+ * A residue the map calls disallowed is therefore judged again by the hard-sphere dipeptide at
+ * its own τ, clamped to [110°, 115°]: only a residue outside the outer limit at its own
+ * geometry is 'disallowed' (and flagged). Cost: one dipeptide per such residue.
+ */
+export function stericStatusOwnTau(
+  map: StericMap,
+  parent: string,
+  phi: number,
+  psi: number,
+  tauDeg: number,
+): StericStatus {
+  const atMap = stericStatusAt(map, phi, psi);
+  if (atMap !== 'disallowed' || !Number.isFinite(tauDeg) || tauDeg <= map.tauDeg) return atMap;
+  const tau = Math.min(STERIC_TAU_MAX_DEG, tauDeg);
+  return evaluateSteric(stericKindFor(parent), phi, psi, tau).status;
+}
 
 /** Ramachandran verdicts, steric status and rotamer verdicts per residue conformer. */
 export function verdictStep(ctx: ModelContext): void {
@@ -75,7 +105,11 @@ export function verdictStep(ctx: ModelContext): void {
         if (v.verdict === 'outlier') flag(ctx, k, 'rama-outlier');
         else if (v.verdict === 'allowed') flag(ctx, k, 'rama-allowed');
       }
-      const steric = stericStatusAt(ref.steric[stericKindFor(parent)], phi, psi);
+      const a = t.n[k];
+      const b = t.ca[k];
+      const c = t.c[k];
+      const tau = a >= 0 && b >= 0 && c >= 0 ? angleDeg(model.atoms, a, b, c) : NaN;
+      const steric = stericStatusOwnTau(ref.steric[stericKindFor(parent)], parent, phi, psi, tau);
       r.steric = steric;
       if (steric === 'disallowed') flag(ctx, k, 'steric-disallowed');
     } else {
