@@ -10,7 +10,12 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import yazl from 'yazl';
 import { sharedVegaHost } from '../src/figures/vega-host.js';
-import { buildPackage, builtinTemplateSet, type BuiltPackage } from '../src/packages/build.js';
+import {
+  buildPackage,
+  builtinTemplateSet,
+  checkAnonymous,
+  type BuiltPackage,
+} from '../src/packages/build.js';
 import { verifyPackage } from '../src/packages/verify.js';
 import { readZip, writeZip, ZipSafetyError } from '../src/packages/zip.js';
 import { fixture, REPO } from './helpers/workflow.js';
@@ -230,6 +235,22 @@ test('verify recomputes with the template versions inside the package, not the i
   expect(r.files.filter((f) => f.status !== 'identical')).toEqual([]);
   expect(r.ok).toBe(true);
 }, 60000);
+
+test('the anonymisation guard names the file that would reveal a member, by whole words only', () => {
+  const files = new Map([
+    ['README.md', Buffer.from('Analysed by the engine; Anatomy of a fold.\n')],
+    ['model/v1.cif', Buffer.from("_audit_author.name 'Lund, Ana'\n")],
+  ]);
+  // "Ana" inside "Analysed"/"Anatomy" is not a name; the author record in the model is
+  expect(() => checkAnonymous(files, ['Ana'])).toThrow(
+    /would reveal "Ana" in model\/v1\.cif\. Remove it from the model file/,
+  );
+  files.delete('model/v1.cif');
+  expect(() => checkAnonymous(files, ['Ana', 'a.lund@fen-lab.example'])).not.toThrow();
+  // on a real (non-anonymised) package: a name it does not hold passes, its preparer is found
+  expect(() => checkAnonymous(first.files, ['Marrowdale'])).not.toThrow();
+  expect(() => checkAnonymous(first.files, ['Ada Quillfeather'])).toThrow(/in README\.md/);
+});
 
 /** A zip whose entry name is patched after writing (yazl itself refuses unsafe names). */
 async function zipWithName(safe: string, evil: string, mode?: number): Promise<Buffer> {

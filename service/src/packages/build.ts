@@ -678,19 +678,24 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
   return { zip, manifest, files, reports: reports.map((r) => r.report) };
 }
 
+/** Entries searched as text; PDF and Word files are drawn from the same SVG and table model. */
+const TEXTUAL = /\.(json|csv|md|html|tex|svg|cif|pdb|ent|hbs|txt)$/i;
+
 /**
- * Fails when any entry contains one of the forbidden texts (case-insensitive; Latin-1 view of
- * binary entries catches plain-text runs, and compressed parts of PDF/docx are checked after
- * the zip is read back in tests). Names the file so the owner can act.
+ * Fails when a text entry contains one of the forbidden texts as a whole word or phrase
+ * (case-insensitive; whole words so a short name never matches inside another word). Names the
+ * file so the owner can act. Compressed model files (.gz, BinaryCIF) are not searched here.
  */
 export function checkAnonymous(files: Map<string, Buffer>, forbidden: string[]): void {
-  const needles = forbidden.map((t) => t.trim()).filter((t) => t.length >= 3);
+  const escape = (t: string) => t.replace(/[.*+?^$()|[\]{}\\]/g, '\\$&');
+  const needles = [...new Set(forbidden.map((t) => t.trim()).filter((t) => t.length >= 3))].map(
+    (n) => ({ n, re: new RegExp('(^|[^\\p{L}\\p{N}])' + escape(n) + '($|[^\\p{L}\\p{N}])', 'iu') }),
+  );
   for (const [path, bytes] of files) {
-    const hay = bytes.toString('latin1').toLowerCase();
-    const hayUtf8 = bytes.toString('utf8').toLowerCase();
-    for (const n of needles) {
-      const low = n.toLowerCase();
-      if (hay.includes(low) || hayUtf8.includes(low))
+    if (!TEXTUAL.test(path)) continue;
+    const hay = bytes.toString('utf8');
+    for (const { n, re } of needles) {
+      if (re.test(hay))
         throw new PackageBuildError(
           `The anonymised package would reveal "${n}" in ${path}. ${path.startsWith('model/') ? 'Remove it from the model file (for example its author records) and upload a new version, or build the package without the model file.' : 'Build the package without anonymisation, or tell the Foldfolio developers.'}`,
         );

@@ -158,7 +158,9 @@ export async function processPackage(
       // would only be caught verbatim)
       forbiddenTexts: [
         ...people.flatMap((p) => [p.display_name, p.email]),
-        ...comments.flatMap((c) => c.body_md.split('\n')).filter((l) => l.trim().length >= 12),
+        ...comments
+          .flatMap((c) => c.body_md.split('\n'))
+          .filter((l) => l.trim().length >= 20 && l.trim().split(/\s+/).length >= 4),
       ],
       onProgress,
       templates,
