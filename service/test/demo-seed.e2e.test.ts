@@ -17,7 +17,7 @@ afterAll(async () => {
 
 async function counts(): Promise<Record<string, number>> {
   const out: Record<string, number> = {};
-  for (const table of ['users', 'manuscripts', 'memberships', 'invitations', 'mail_messages']) {
+  for (const table of ['users', 'manuscripts', 'memberships', 'invitations', 'model_versions']) {
     const rows: Array<{ n: number | string }> = await t.db.query(
       `SELECT COUNT(*) AS n FROM ${table}`,
     );
@@ -26,7 +26,7 @@ async function counts(): Promise<Record<string, number>> {
   return out;
 }
 
-test('the demo seed creates three people, one manuscript and one invitation, once', async () => {
+test('the demo seed creates three people, one manuscript with two demo models and one invitation, once', async () => {
   const seed = t.app.get(DemoSeedService);
   await seed.seed();
   await waitForMail(t, DEMO_INVITEE, /invites you/);
@@ -36,8 +36,20 @@ test('the demo seed creates three people, one manuscript and one invitation, onc
     manuscripts: 1,
     memberships: 3,
     invitations: 1,
-    mail_messages: 1,
+    model_versions: 2,
   });
+  // the demo models are the engine's invented ones, queued for analysis like any upload
+  const versions: Array<{ filename: string; note: string }> = await t.db.query(
+    'SELECT filename, note FROM model_versions ORDER BY n',
+  );
+  for (const v of versions) {
+    expect(v.filename).toMatch(/\.cif$/);
+    expect(v.note).toMatch(/invented demo model/);
+  }
+  const queued: Array<{ n: number | string }> = await t.db.query(
+    'SELECT COUNT(*) AS n FROM analyses',
+  );
+  expect(Number(queued[0].n)).toBe(2);
   await seed.seed();
   expect(await counts()).toEqual(first);
 

@@ -20,7 +20,9 @@ import { EmptyUploadError, NotAStructureError } from '../storage/sniff.js';
 import { STORAGE_SETTINGS, type StorageSettings } from '../storage/storage.module.js';
 import type { User } from '../users/user.entity.js';
 import { ModelVersion } from './model-version.entity.js';
-import { receiveUpload, UploadFormError } from './upload.js';
+import { type ParsedUpload, receiveUpload, UploadFormError } from './upload.js';
+import { type SniffedFormat, sanitizeFilename, sniffFormat } from '../storage/sniff.js';
+import { Readable } from 'node:stream';
 import { EventEmitter } from 'node:events';
 
 const NOTE_MAX = 2000;
@@ -62,7 +64,37 @@ export class ModelsService {
       }
       throw err;
     }
-    const note = (parsed.fields.note ?? '').trim();
+    return this.createVersion(manuscriptId, user, parsed, parsed.fields.note ?? '');
+  }
+
+  /**
+   * Stores a model given as bytes (the demo seed, command-line imports) through the same checks
+   * as an upload: size limit, format sniffed from content, duplicate detection, numbering.
+   */
+  async addFromBytes(
+    manuscriptId: string,
+    user: User,
+    bytes: Uint8Array,
+    filename: string,
+    note: string,
+  ): Promise<ModelVersionDto> {
+    const safeName = sanitizeFilename(filename);
+    let sniffed: SniffedFormat | null = null;
+    const blob = await this.store.put(Readable.from([Buffer.from(bytes)]), {
+      maxBytes: this.storage.uploadLimitBytes,
+      inspectHead: (head) => (sniffed = sniffFormat(head, safeName)),
+    });
+    if (!sniffed) throw new BadRequestException('The model could not be read. Try again.');
+    return this.createVersion(manuscriptId, user, { blob, sniffed, filename: safeName }, note);
+  }
+
+  private async createVersion(
+    manuscriptId: string,
+    user: User,
+    parsed: Pick<ParsedUpload, 'blob' | 'sniffed' | 'filename'>,
+    rawNote: string,
+  ): Promise<ModelVersionDto> {
+    const note = rawNote.trim();
     if (note.length > NOTE_MAX) {
       throw new BadRequestException(`Shorten the note to ${NOTE_MAX} characters or fewer.`);
     }

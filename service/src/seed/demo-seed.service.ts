@@ -9,6 +9,8 @@ import { Manuscript } from '../manuscripts/manuscript.entity.js';
 import { Membership } from '../manuscripts/membership.entity.js';
 import { InvitationsService } from '../invitations/invitations.service.js';
 import { User } from '../users/user.entity.js';
+import { ModelsService } from '../models/models.service.js';
+import { buildDemoStructures } from '@foldfolio/shared';
 
 /** Invented lab and people (no real names); the password is for a local demo only. */
 export const DEMO_LAB = 'Tarnwick Institute for Protein Architecture';
@@ -52,6 +54,7 @@ export class DemoSeedService {
     @Inject(APP_CONFIG) private readonly cfg: AppConfig,
     @InjectDataSource() private readonly db: DataSource,
     private readonly invitations: InvitationsService,
+    private readonly models: ModelsService,
   ) {}
 
   async seed(): Promise<void> {
@@ -116,10 +119,40 @@ export class DemoSeedService {
       const owner = await this.db.manager.findOneByOrFail(User, { id: ownerId });
       await this.invitations.invite(newManuscript, owner, DEMO_INVITEE, 'reviewer');
     }
+    const modelsAdded = await this.seedModels(ownerId);
     this.log.log(
-      created > 0
+      created + modelsAdded > 0
         ? `demo data seeded (${DEMO_LAB}; sign in as ${DEMO_PEOPLE[0].email} / ${DEMO_PASSWORD})`
         : 'demo data already present',
     );
+  }
+
+  /**
+   * The demo manuscript's model versions: invented models built by the engine's demo builder
+   * (ideal geometry with a few planted faults), analysed by the worker like any upload.
+   * Added only while the demo manuscript has no versions, so a second start adds nothing.
+   */
+  private async seedModels(ownerId: string): Promise<number> {
+    const rows: Array<{ id: string; versions: string | number }> = await this.db.query(
+      `SELECT ms.id, (SELECT COUNT(*) FROM model_versions mv WHERE mv.manuscript_id = ms.id) AS versions
+         FROM manuscripts ms JOIN memberships mb ON mb.manuscript_id = ms.id
+        WHERE ms.title = ? AND mb.user_id = ? LIMIT 1`,
+      [DEMO_TITLE, ownerId],
+    );
+    if (rows.length === 0 || Number(rows[0].versions) > 0) return 0;
+    const owner = await this.db.manager.findOneByOrFail(User, { id: ownerId });
+    let added = 0;
+    for (const demo of buildDemoStructures()) {
+      const faults = demo.faults.map((f) => `${f.kind} at ${f.chain} ${f.seq}`).join(', ');
+      await this.models.addFromBytes(
+        rows[0].id,
+        owner,
+        new TextEncoder().encode(demo.cif),
+        demo.fileName,
+        `${demo.title} — invented demo model built by Foldfolio with planted faults: ${faults}.`,
+      );
+      added++;
+    }
+    return added;
   }
 }
