@@ -160,3 +160,27 @@ describe('foldfolio report (CLI)', () => {
     expect(err.trimEnd().split('\n')).toHaveLength(1);
   });
 });
+
+describe('experimental statistics in the report', () => {
+  // The method and the values come from the file's own records (_exptl.method, _reflns, _refine);
+  // the experiment reader itself is checked against gemmi in experiment.test.ts.
+  test.each([
+    ['1A8O.cif', 'x-ray'],
+    ['2OFG.cif', 'nmr'],
+    ['1A8O.pdb', 'x-ray'],
+  ])(
+    '%s: report.method is %s and report.experiment carries the high-resolution limit when stated',
+    async (file, method) => {
+      const bytes = new Uint8Array(fs.readFileSync(path.join(FIXTURES, file)));
+      const report = await buildReport(bytes, { filename: file });
+      expect(report.method).toBe(method);
+      expect(report.experiment).toBeDefined();
+      const keys = Object.keys(report.experiment ?? {});
+      if (method === 'x-ray') {
+        expect(keys).toContain('resolutionHighA');
+        // 1A8O is a 1.70 Å entry (../shared/data/README.md)
+        expect(Number(report.experiment?.resolutionHighA.value)).toBeCloseTo(1.7, 2);
+      }
+    },
+  );
+});

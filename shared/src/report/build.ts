@@ -20,6 +20,7 @@ import { StructureReadError } from '../io/errors';
 import { ensembleStep, GEOMETRY_MODEL_ANALYSES } from '../validation/geometry-analyses';
 import { referenceStep, VERDICT_MODEL_ANALYSES } from '../validation/verdict-analyses';
 import { sha256Hex } from './sha256';
+import { experimentRecord, readExperimentFromBytes } from '../experiment/read';
 import { ENGINE_VERSION } from './version';
 import { REPORT_SCHEMA } from './types';
 import type {
@@ -340,5 +341,19 @@ export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}
   const t0 = options.timings !== undefined ? performance.now() : 0;
   const structure = await readStructure(bytes, options.filename ?? '', options);
   if (options.timings !== undefined) options.timings['read'] = performance.now() - t0;
-  return buildReportFromStructure(structure, bytes, options);
+  const report = buildReportFromStructure(structure, bytes, options);
+  const t1 = options.timings !== undefined ? performance.now() : 0;
+  // Experimental statistics are read, not computed; a header we cannot read leaves them out
+  // (the structure itself was read, so the report stands) and says so.
+  try {
+    const stats = await readExperimentFromBytes(bytes, options.filename ?? '');
+    report.method = stats.method;
+    report.experiment = experimentRecord(stats);
+  } catch (err) {
+    report.cautions.push(
+      `The file's experimental records could not be read (${(err as Error).message}); enter the data-collection values in the methods-table form.`,
+    );
+  }
+  if (options.timings !== undefined) options.timings['experiment'] = performance.now() - t1;
+  return report;
 }
