@@ -1,5 +1,5 @@
 import * as shared from '@foldfolio/shared';
-import type { AnalysisStage, Report, Structure } from '@foldfolio/shared';
+import type { AnalysisStage, Report } from '@foldfolio/shared';
 
 export interface EngineRunOptions {
   filename: string;
@@ -8,26 +8,12 @@ export interface EngineRunOptions {
   onStage: (stage: AnalysisStage, fraction: number) => void;
 }
 
-type FromStructure = (
-  structure: Structure,
-  bytes: Uint8Array,
-  options: Record<string, unknown>,
-) => Report;
-
 /**
- * Runs the engine exactly as `buildReport` does (read, then analyse the structure), split in two
- * so the stages can be reported. The analysis half is looked up at run time so the service
- * builds even where the engine's report builder is absent; then the analysis fails with a
- * sentence instead of a crash. The engine gives no finer progress yet: the `geometry` stage
- * covers every per-residue analysis, overlaps included.
+ * Runs the engine exactly as `buildReport` does (read, analyse, add the file's experimental
+ * records), split so the stages can be reported. The engine gives no finer progress yet: the
+ * `geometry` stage covers every per-residue analysis, overlaps included.
  */
 export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Promise<Report> {
-  const fromStructure = (shared as unknown as Record<string, unknown>).buildReportFromStructure;
-  if (typeof fromStructure !== 'function') {
-    throw new Error(
-      'This server’s engine cannot build reports yet (buildReportFromStructure is missing). Ask an admin to update Foldfolio.',
-    );
-  }
   opts.onStage('parse', 0);
   // a gzip bomb stops at this ceiling (default: the engine's own, 2 GiB)
   const limit = Number(
@@ -37,5 +23,7 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
     maxUncompressedBytes: limit,
   });
   opts.onStage('geometry', 0);
-  return (fromStructure as FromStructure)(structure, bytes, { filename: opts.filename });
+  const report = shared.buildReportFromStructure(structure, bytes);
+  await shared.addExperiment(report, bytes, opts.filename);
+  return report;
 }

@@ -343,10 +343,23 @@ export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}
   if (options.timings !== undefined) options.timings['read'] = performance.now() - t0;
   const report = buildReportFromStructure(structure, bytes, options);
   const t1 = options.timings !== undefined ? performance.now() : 0;
-  // Experimental statistics are read, not computed; a header we cannot read leaves them out
-  // (the structure itself was read, so the report stands) and says so.
+  await addExperiment(report, bytes, options.filename ?? '');
+  if (options.timings !== undefined) options.timings['experiment'] = performance.now() - t1;
+  return report;
+}
+
+/**
+ * Adds the method and the experimental statistics read from the file's own records (PDBx items
+ * or legacy REMARKs: read, not computed). A header we cannot read leaves them out — the
+ * structure itself was read, so the report stands — and the cautions say so.
+ */
+export async function addExperiment(
+  report: Report,
+  bytes: Uint8Array,
+  filename = '',
+): Promise<void> {
   try {
-    const stats = await readExperimentFromBytes(bytes, options.filename ?? '');
+    const stats = await readExperimentFromBytes(bytes, filename);
     report.method = stats.method;
     report.experiment = experimentRecord(stats);
   } catch (err) {
@@ -354,6 +367,4 @@ export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}
       `The file's experimental records could not be read (${(err as Error).message}); enter the data-collection values in the methods-table form.`,
     );
   }
-  if (options.timings !== undefined) options.timings['experiment'] = performance.now() - t1;
-  return report;
 }
