@@ -58,22 +58,22 @@ export function useRegister() {
 }
 
 /**
- * Ends the session on the server and here, then goes to `to`. The navigation lives in the
- * mutation itself: the component that asked unmounts as soon as the session is gone, and a
- * caller's own callbacks would never run.
+ * Ends the session on the server and here. Inside the signed-in area the route guard then shows
+ * the sign-in page; a public page may pass where to go instead (`to`). The navigation lives in
+ * the mutation itself because a caller's own callbacks never run once it has unmounted.
  */
 export function useSignOut() {
   const qc = useQueryClient();
   const navigate = useNavigate();
   return useMutation({
-    mutationFn: async (_to: string) => {
+    mutationFn: async (_to: string | undefined) => {
       await api<void>('/api/auth/sign-out', { method: 'POST' });
     },
     // sign out locally even when the server call fails: the user asked to leave
     onSettled: (_data, _err, to) => {
-      setSession(null);
+      setSession(null, true);
       qc.clear();
-      void navigate(to, { replace: true });
+      if (to) void navigate(to, { replace: true });
     },
   });
 }

@@ -21,7 +21,16 @@ let accessToken: string | null = null;
 let refreshing: Promise<SessionDto | null> | null = null;
 const listeners = new Set<SessionListener>();
 
-export function setSession(session: SessionDto | null): void {
+// Whether the last session ended because the user signed out (rather than expired): the route
+// guard then sends them to a plain sign-in page instead of one that leads back where they were.
+let endedOnPurpose = false;
+
+export function endedByUser(): boolean {
+  return endedOnPurpose;
+}
+
+export function setSession(session: SessionDto | null, byUser = false): void {
+  endedOnPurpose = session === null && byUser;
   accessToken = session?.accessToken ?? null;
   for (const l of listeners) l(session);
 }

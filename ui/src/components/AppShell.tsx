@@ -50,7 +50,7 @@ export function AppShell() {
                   <MenuItem
                     icon="log-out"
                     text="Sign out"
-                    onClick={() => signOut.mutate('/sign-in')}
+                    onClick={() => signOut.mutate(undefined)}
                   />
                 </Menu>
               }

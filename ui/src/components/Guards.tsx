@@ -1,6 +1,7 @@
 import type { ReactNode } from 'react';
 import { NonIdealState } from '@blueprintjs/core';
 import { Navigate, useLocation } from 'react-router';
+import { endedByUser } from '../api/client';
 import { useAuth } from '../hooks/useAuth';
 import { Loading } from './Loading';
 
@@ -9,6 +10,7 @@ export function RequireSignedIn({ children }: { children: ReactNode }) {
   const location = useLocation();
   if (auth.status === 'checking') return <Loading label="Opening your session…" />;
   if (auth.status === 'signed-out') {
+    if (endedByUser()) return <Navigate to="/sign-in" replace />;
     const next = location.pathname + location.search;
     return <Navigate to={`/sign-in?next=${encodeURIComponent(next)}`} replace />;
   }
