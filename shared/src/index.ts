@@ -16,6 +16,7 @@ export * from './geometry/torsion';
 export * from './geometry/superpose';
 export * from './validation/torsions';
 export * from './report/build';
+export * from './report/cautions';
 export { ENGINE_VERSION } from './report/version';
 export { sha256Hex } from './report/sha256';
 // Covalent geometry, peptides, chirality, Cβ, secondary structure, composition, ensembles,

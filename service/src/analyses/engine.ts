@@ -24,6 +24,6 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
   });
   opts.onStage('geometry', 0);
   const report = shared.buildReportFromStructure(structure, bytes);
-  await shared.addExperiment(report, bytes, opts.filename);
+  await shared.completeReport(report, bytes, opts.filename);
   return report;
 }

@@ -293,43 +293,6 @@ export function residuesCsv(report: Report): string {
   return rowsToCsv(rows);
 }
 
-/** Plain-word flags of values that should make an author look again (counts above zero). */
-export function worryingValues(report: Report): string[] {
-  const out: string[] = [...report.cautions];
-  const m = report.models[0];
-  if (!m) return out;
-  const s = m.summary;
-  const pct = (a: number, t: number) => (t > 0 ? ((100 * a) / t).toFixed(1) : '0');
-  if (s.rama && s.rama.overall.outlier > 0)
-    out.push(
-      `${s.rama.overall.outlier} of ${s.rama.overall.total} residues (${pct(s.rama.overall.outlier, s.rama.overall.total)}%) lie outside the allowed Ramachandran regions; look at each one in the density.`,
-    );
-  if (s.rotamers && s.rotamers.outlier > 0)
-    out.push(
-      `${s.rotamers.outlier} of ${s.rotamers.total} side chains have unusual rotamers; check that the density supports them.`,
-    );
-  const cisNonPro = s.cisPeptides - s.cisProPeptides;
-  if (cisNonPro > 0)
-    out.push(
-      `${cisNonPro} cis peptide(s) before a residue other than proline: these are rare and each needs clear density.`,
-    );
-  if (s.twistedPeptides > 0)
-    out.push(`${s.twistedPeptides} peptide(s) are twisted far from planar; check them.`);
-  if (s.dResidues > 0)
-    out.push(
-      `${s.dResidues} residue(s) have D (inverted) chirality at CA; unless intended, this is a building error.`,
-    );
-  if (s.cbOutliers > 0)
-    out.push(`${s.cbOutliers} residue(s) have a CB far from its ideal position.`);
-  if (s.overlaps && s.overlaps.severe > 0)
-    out.push(`${s.overlaps.severe} pair(s) of atoms overlap severely (0.4 Å or more).`);
-  if (s.bonds.outliers > 0 || s.angles.outliers > 0)
-    out.push(
-      `${s.bonds.outliers} bond length(s) and ${s.angles.outliers} bond angle(s) deviate by more than 4σ from ideal values.`,
-    );
-  return out;
-}
-
 function readme(
   title: string,
   manifest: Omit<Manifest, 'files'>,
@@ -348,7 +311,8 @@ function readme(
     "- The journal's and the structure archive's own requirements and validation still apply; this package does not stand in for them.",
   );
   for (const { n, report } of reports) {
-    const w = worryingValues(report);
+    // the engine's plain-language cautions (shared/src/report/cautions.ts), one rule set everywhere
+    const w = report.cautions;
     L.push('', `### Model version ${n}`, '');
     if (w.length === 0)
       L.push('- No counts of concern were found by the checks this package covers.');

@@ -21,6 +21,7 @@ import { ensembleStep, GEOMETRY_MODEL_ANALYSES } from '../validation/geometry-an
 import { referenceStep, VERDICT_MODEL_ANALYSES } from '../validation/verdict-analyses';
 import { sha256Hex } from './sha256';
 import { experimentRecord, readExperimentFromBytes } from '../experiment/read';
+import { reportCautions } from './cautions';
 import { ENGINE_VERSION } from './version';
 import { REPORT_SCHEMA } from './types';
 import type {
@@ -343,9 +344,19 @@ export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}
   if (options.timings !== undefined) options.timings['read'] = performance.now() - t0;
   const report = buildReportFromStructure(structure, bytes, options);
   const t1 = options.timings !== undefined ? performance.now() : 0;
-  await addExperiment(report, bytes, options.filename ?? '');
+  await completeReport(report, bytes, options.filename ?? '');
   if (options.timings !== undefined) options.timings['experiment'] = performance.now() - t1;
   return report;
+}
+
+/** The report-wide steps after the per-model analyses: experimental records, then cautions. */
+export async function completeReport(
+  report: Report,
+  bytes: Uint8Array,
+  filename = '',
+): Promise<void> {
+  await addExperiment(report, bytes, filename);
+  report.cautions.push(...reportCautions(report));
 }
 
 /**
