@@ -78,6 +78,8 @@ function VersionReport({
   if (report.isError) return <Problem error={report.error} />;
   const s = version.analysis?.summary;
   if (!model || !s) return <Problem error={new Error('This report has no model to show.')} />;
+  // statistics that could not be computed have their own panel below
+  const worthALook = report.data.cautions.filter((c) => !c.startsWith('Not computed:'));
   const cards = summaryCards(s, cisNonProline(model.residues));
 
   return (
@@ -105,10 +107,10 @@ function VersionReport({
           ))}
         </Card>
       </div>
-      {report.data.cautions.length > 0 && (
+      {worthALook.length > 0 && (
         <Callout intent="warning" title="Worth a look" icon="warning-sign">
           <ul>
-            {report.data.cautions.map((c) => (
+            {worthALook.map((c) => (
               <li key={c}>{c}</li>
             ))}
           </ul>
