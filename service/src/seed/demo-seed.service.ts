@@ -10,7 +10,7 @@ import { Membership } from '../manuscripts/membership.entity.js';
 import { InvitationsService } from '../invitations/invitations.service.js';
 import { User } from '../users/user.entity.js';
 import { ModelsService } from '../models/models.service.js';
-import { buildDemoStructures } from '@foldfolio/shared';
+import { buildDemoStructure, demoSpecs } from '@foldfolio/shared';
 
 /** Invented lab and people (no real names); the password is for a local demo only. */
 export const DEMO_LAB = 'Tarnwick Institute for Protein Architecture';
@@ -141,15 +141,33 @@ export class DemoSeedService {
     );
     if (rows.length === 0 || Number(rows[0].versions) > 0) return 0;
     const owner = await this.db.manager.findOneByOrFail(User, { id: ownerId });
+    // The story: version 1 is the invented three-helix bundle as first refined (planted faults);
+    // version 2 is the same model after "re-refinement" (the faults removed), so the version
+    // ledger has fixed outliers to show.
+    const bundle = demoSpecs().find((d) => d.layout === 'bundle') ?? demoSpecs()[0];
+    const first = buildDemoStructure(bundle);
+    const second = buildDemoStructure({ ...bundle, faults: [] });
+    const faults = first.faults.map((f) => `${f.kind} at ${f.chain} ${f.seq}`).join(', ');
+    const versions: Array<[typeof first, string, string]> = [
+      [
+        first,
+        first.fileName,
+        `First refinement of ${first.title} — invented demo model built by Foldfolio with planted faults: ${faults}.`,
+      ],
+      [
+        second,
+        first.fileName.replace(/(\.cif)$/, '_v2$1'),
+        `Re-refined: the planted faults are corrected — invented demo model built by Foldfolio.`,
+      ],
+    ];
     let added = 0;
-    for (const demo of buildDemoStructures()) {
-      const faults = demo.faults.map((f) => `${f.kind} at ${f.chain} ${f.seq}`).join(', ');
+    for (const [demo, name, note] of versions) {
       await this.models.addFromBytes(
         rows[0].id,
         owner,
         new TextEncoder().encode(demo.cif),
-        demo.fileName,
-        `${demo.title} — invented demo model built by Foldfolio with planted faults: ${faults}.`,
+        name,
+        note,
       );
       added++;
     }
