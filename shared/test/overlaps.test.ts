@@ -106,7 +106,7 @@ describe('severe overlaps', () => {
     expect(r.hydrogens).toBe('added');
   });
 
-  it.each(['1AS5.cif', '4ou0.pdb.gz', '5xr0.pdb.gz'])(
+  it.each(['1AS5.cif', '4ou0.pdb.gz', '5xr0.pdb.gz', '2OFG.cif'])(
     '%s: same severe overlaps as a brute-force all-pairs scan',
     async (f) => {
       const st = await readStructure(fs.readFileSync(path.join(FIX, f)), f);

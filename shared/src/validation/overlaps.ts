@@ -134,81 +134,68 @@ class IntList {
   }
 }
 
-/** Largest distance from a deposited H to its parent heavy atom (common practice, no source). */
-const H_PARENT_MAX_A = 1.3;
-/** Largest distance from a C to a bonded heavy atom, to tell sp3 C–H from sp2 C–H. */
-const C_HEAVY_BOND_MAX_A = 1.75; // C–S 1.82 is not needed: C–H parents with S are sp3 anyway
+/**
+ * Deposited H move by at most this much when set to the analysis X–H length (nuclear 1.10 Å
+ * C–H to 0.93 Å aromatic is 0.17 Å): contact searches for pairs with H reach this much further,
+ * because bonds and candidates are found before the move.
+ */
+const H_MOVE_MARGIN_A = 0.2;
 
 /**
  * Deposited hydrogens come at either X–H convention (1EJG's at nuclear lengths, C–H 1.10 Å
  * measured with gemmi; 1OLR's at electron-cloud lengths): each is moved along its bond to the
  * length the analysis uses for added H, so both kinds meet the same radii (a nuclear C–H is
  * 0.12 Å longer, which turns ordinary H···H contacts into "severe" overlaps). The H keeps its
- * direction (a refined methyl or hydroxyl orientation stays as deposited). Returns 1 per moved
- * atom. Parent: the nearest heavy atom within 1.3 Å of a compatible altloc.
+ * direction (a refined methyl or hydroxyl orientation stays as deposited). Parent: the nearest
+ * bonded heavy atom; C–H length by the parent's H count (3 methyl, 2 methylene) or, with one H,
+ * by its heavy neighbours (3: tertiary sp3, else sp2).
  */
 function rescaleDepositedHydrogens(
   conv: XhConvention,
-  hyd: IntList,
-  heavyGrid: ReturnType<typeof buildCellGrid>,
+  hIdx: Int32Array,
+  adjStart: Int32Array,
+  adj: Int32Array,
   xs: Float64Array,
   ys: Float64Array,
   zs: Float64Array,
   el: Uint8Array,
-  alt: Int32Array,
   fromModel: Uint8Array,
-): Uint8Array {
-  const m = xs.length;
-  const moved = new Uint8Array(m);
-  const parentOf = new Int32Array(hyd.length).fill(-1);
-  const hCount = new Map<number, number>();
-  for (let q = 0; q < hyd.length; q++) {
-    const h = hyd.data[q];
-    if (fromModel[h] !== 1) continue;
-    let best = -1;
-    let bestD2 = H_PARENT_MAX_A * H_PARENT_MAX_A;
-    forEachWithin(heavyGrid, xs[h], ys[h], zs[h], H_PARENT_MAX_A, (a, d2) => {
-      if (alt[h] !== 0 && alt[a] !== 0 && alt[h] !== alt[a]) return;
-      if (d2 < bestD2 || (d2 === bestD2 && a < best)) {
-        best = a;
-        bestD2 = d2;
-      }
-    });
-    parentOf[q] = best;
-    if (best >= 0) hCount.set(best, (hCount.get(best) ?? 0) + 1);
-  }
+): void {
   const t = XH_LENGTHS_A[conv];
-  for (let q = 0; q < hyd.length; q++) {
-    const h = hyd.data[q];
-    const p = parentOf[q];
+  for (let q = 0; q < hIdx.length; q++) {
+    const h = hIdx[q];
+    if (fromModel[h] !== 1) continue;
+    let p = -1;
+    let best = Infinity;
+    for (let e = adjStart[h]; e < adjStart[h + 1]; e++) {
+      const a = adj[e];
+      if (el[a] === El.H) continue;
+      const d2 = (xs[a] - xs[h]) ** 2 + (ys[a] - ys[h]) ** 2 + (zs[a] - zs[h]) ** 2;
+      if (d2 < best) {
+        best = d2;
+        p = a;
+      }
+    }
     if (p < 0) continue;
     let len: number;
     if (el[p] === El.N) len = t.N;
     else if (el[p] === El.O) len = t.O;
     else if (el[p] === El.S || el[p] === El.Se) len = t.S;
     else if (el[p] === El.C) {
-      const nh = hCount.get(p) ?? 0;
-      if (nh >= 3) len = t['C-methyl'];
-      else if (nh === 2) len = t['C-tet2'];
-      else {
-        let heavyNb = 0;
-        forEachWithin(heavyGrid, xs[p], ys[p], zs[p], C_HEAVY_BOND_MAX_A, (a) => {
-          if (a !== p && (alt[p] === 0 || alt[a] === 0 || alt[p] === alt[a])) heavyNb++;
-        });
-        len = heavyNb >= 3 ? t['C-tet1'] : t['C-tri1'];
-      }
+      let nh = 0;
+      let heavy = 0;
+      for (let e = adjStart[p]; e < adjStart[p + 1]; e++)
+        if (el[adj[e]] === El.H) nh++;
+        else heavy++;
+      len =
+        nh >= 3 ? t['C-methyl'] : nh === 2 ? t['C-tet2'] : heavy >= 3 ? t['C-tet1'] : t['C-tri1'];
     } else continue;
-    const dx = xs[h] - xs[p];
-    const dy = ys[h] - ys[p];
-    const dz = zs[h] - zs[p];
-    const d = Math.hypot(dx, dy, dz);
+    const d = Math.sqrt(best);
     if (d === 0) continue;
-    xs[h] = xs[p] + (dx / d) * len;
-    ys[h] = ys[p] + (dy / d) * len;
-    zs[h] = zs[p] + (dz / d) * len;
-    moved[h] = 1;
+    xs[h] = xs[p] + ((xs[h] - xs[p]) / d) * len;
+    ys[h] = ys[p] + ((ys[h] - ys[p]) / d) * len;
+    zs[h] = zs[p] + ((zs[h] - zs[p]) / d) * len;
   }
-  return moved;
 }
 
 export function analyzeOverlaps(
@@ -283,6 +270,8 @@ export function analyzeOverlaps(
   const candA = new IntList();
   const candB = new IntList();
   const maxContact = 2 * 1.9 - severeA;
+  // only deposited H move (below), so only models with deposited H need the wider search
+  const hMargin = all.depositedHydrogens > 0 ? H_MOVE_MARGIN_A : 0;
   // 8 × 8 tables by element code: squared bond limit and squared severe-contact distance.
   const bondLim2 = new Float64Array(64);
   const contact2 = new Float64Array(64);
@@ -290,16 +279,12 @@ export function analyzeOverlaps(
     for (let b = 1; b < 8; b++) {
       const lim = (COVALENT_RADII_A[a] ?? 0) + (COVALENT_RADII_A[b] ?? 0) + BOND_TOLERANCE_A;
       bondLim2[a * 8 + b] = a === El.H && b === El.H ? 0 : lim * lim;
-      const c = (BONDI_RADII_A[a] ?? 0) + (BONDI_RADII_A[b] ?? 0) - severeA;
+      const margin = (a === El.H ? hMargin : 0) + (b === El.H ? hMargin : 0);
+      const c = (BONDI_RADII_A[a] ?? 0) + (BONDI_RADII_A[b] ?? 0) - severeA + margin;
       contact2[a * 8 + b] = c > 0 ? c * c : 0;
     }
   const visit = (i: number, j: number, d2: number): void => {
     if (alt[i] !== 0 && alt[j] !== 0 && alt[i] !== alt[j]) return;
-    // A water next to a partially occupied atom (or a partially occupied water) is an
-    // alternative site: of another water (often written without altloc ids, e.g. 1OLR HOH
-    // 2140/2142, 0.7 Å apart) or of a side-chain conformer (1OLR HOH 2126, 1.3 Å from Lys 69
-    // NZ of altloc A at occupancy 0.6). Such pairs are never present together.
-    if ((water[i] === 1 || water[j] === 1) && (partial[i] === 1 || partial[j] === 1)) return;
     const pe = el[i] * 8 + el[j];
     if (d2 < bondLim2[pe] && fromModel[i] === 1 && fromModel[j] === 1) {
       // added H bond only to their parent (below)
@@ -344,16 +329,9 @@ export function analyzeOverlaps(
   const heavyIdx = heavy.data.subarray(0, heavy.length);
   const hIdx = hyd.data.subarray(0, hyd.length);
   const heavyGrid = buildCellGrid(xs, ys, zs, { subset: heavyIdx, cellSizeA: maxContact });
-  const rescaled = rescaleDepositedHydrogens(conv, hyd, heavyGrid, xs, ys, zs, el, alt, fromModel);
-  for (let k = 0; k < m; k++)
-    if (rescaled[k] === 1) {
-      all.x[perm[k]] = xs[k];
-      all.y[perm[k]] = ys[k];
-      all.z[perm[k]] = zs[k];
-    }
   forEachPairWithin(heavyGrid, maxContact, visit);
-  const hHeavyCut = BONDI_RADII_A[El.H] + BONDI_RADII_A[El.Se] - severeA;
-  const hHCut = 2 * BONDI_RADII_A[El.H] - severeA;
+  const hHeavyCut = BONDI_RADII_A[El.H] + BONDI_RADII_A[El.Se] - severeA + hMargin;
+  const hHCut = 2 * BONDI_RADII_A[El.H] - severeA + 2 * hMargin;
   if (hIdx.length > 0) {
     const hGrid = buildCellGrid(xs, ys, zs, { subset: hIdx, cellSizeA: hHeavyCut });
     forEachPairWithin(hGrid, hHCut, visit);
@@ -385,31 +363,41 @@ export function analyzeOverlaps(
     adj[fill[a]++] = b;
     adj[fill[b]++] = a;
   }
-  /** true when j is at most `maxBonds` bonds from i (breadth-first over the bond graph) */
-  const seen = new Int32Array(m).fill(-1);
-  const queue = new Int32Array(m);
-  let stamp = 0;
-  const withinBonds = (i: number, j: number, maxBonds: number): boolean => {
-    stamp++;
-    let head = 0;
-    let tail = 0;
-    queue[tail++] = i;
-    seen[i] = stamp;
-    for (let depth = 0; depth < maxBonds; depth++) {
-      const end = tail;
-      for (; head < end; head++) {
-        const a = queue[head];
-        for (let p = adjStart[a]; p < adjStart[a + 1]; p++) {
-          const b = adj[p];
-          if (b === j) return true;
-          if (seen[b] !== stamp) {
-            seen[b] = stamp;
-            queue[tail++] = b;
+  rescaleDepositedHydrogens(conv, hIdx, adjStart, adj, xs, ys, zs, el, fromModel);
+  for (let q = 0; q < hIdx.length; q++) {
+    const k = hIdx[q];
+    if (fromModel[k] === 1) {
+      all.x[perm[k]] = xs[k];
+      all.y[perm[k]] = ys[k];
+      all.z[perm[k]] = zs[k];
+    }
+  }
+  /** the number of bonds between i and j when at most four, else 5 (nested walk, early exit) */
+  const bondsApart = (i: number, j: number): number => {
+    let best = 5;
+    for (let p = adjStart[i]; p < adjStart[i + 1]; p++) {
+      const a = adj[p];
+      if (a === j) return 1;
+      for (let q = adjStart[a]; q < adjStart[a + 1]; q++) {
+        const b = adj[q];
+        if (b === j) return 2;
+        if (b === i || best <= 3) continue;
+        for (let r = adjStart[b]; r < adjStart[b + 1]; r++) {
+          const c = adj[r];
+          if (c === j) {
+            best = 3;
+            break;
           }
+          if (c === a || best <= 4) continue;
+          for (let u = adjStart[c]; u < adjStart[c + 1]; u++)
+            if (adj[u] === j) {
+              best = 4;
+              break;
+            }
         }
       }
     }
-    return false;
+    return best;
   };
   /** polar H: bonded to N or O */
   const polarH = (i: number): boolean => {
@@ -426,13 +414,16 @@ export function analyzeOverlaps(
   for (let c = 0; c < candA.length; c++) {
     const i = candA.data[c];
     const j = candB.data[c];
-    // Pairs up to three bonds apart never count; with a hydrogen, up to four (an H's position
-    // follows its parent, so an H four bonds from an atom is set by one torsion of the parent's
-    // framework: Word et al. 1999 extend the exclusion to four bonds for H, from memory).
-    if (withinBonds(i, j, el[i] === El.H || el[j] === El.H ? H_EXCLUDED_BONDS : EXCLUDED_BONDS))
-      continue;
-    const d = Math.hypot(xs[i] - xs[j], ys[i] - ys[j], zs[i] - zs[j]);
-    const raw = BONDI_RADII_A[el[i]] + BONDI_RADII_A[el[j]] - d;
+    // A water next to a partially occupied atom (or a partially occupied water) is an
+    // alternative site: of another water (often written without altloc ids, e.g. 1OLR HOH
+    // 2140/2142, 0.7 Å apart) or of a side-chain conformer (1OLR HOH 2126, 1.3 Å from Lys 69
+    // NZ of altloc A at occupancy 0.6). Such pairs are never present together.
+    if ((water[i] === 1 || water[j] === 1) && (partial[i] === 1 || partial[j] === 1)) continue;
+    const dx = xs[i] - xs[j];
+    const dy = ys[i] - ys[j];
+    const dz = zs[i] - zs[j];
+    const raw =
+      BONDI_RADII_A[el[i]] + BONDI_RADII_A[el[j]] - Math.sqrt(dx * dx + dy * dy + dz * dz);
     let allowance = 0;
     if (
       (el[i] === El.H && isNO(el[j]) && polarH(i)) ||
@@ -440,7 +431,14 @@ export function analyzeOverlaps(
     )
       allowance = HBOND_H_ALLOWANCE_A;
     else if (isNO(el[i]) && isNO(el[j])) allowance = HBOND_HEAVY_ALLOWANCE_A;
-    else if (isOC(i, j) && withinBonds(i, j, 4)) allowance = CARBONYL_1_5_ALLOWANCE_A;
+    if (raw - allowance < severeA) continue; // most candidates end here, before any graph walk
+    // Pairs up to three bonds apart never count; with a hydrogen, up to four (an H's position
+    // follows its parent, so an H four bonds from an atom is set by one torsion of the parent's
+    // framework: Word et al. 1999 extend the exclusion to four bonds for H, from memory).
+    const apart = bondsApart(i, j);
+    if (apart <= EXCLUDED_BONDS) continue;
+    if (apart <= H_EXCLUDED_BONDS && (el[i] === El.H || el[j] === El.H)) continue;
+    if (apart === 4 && isOC(i, j)) allowance = CARBONYL_1_5_ALLOWANCE_A;
     const ov = raw - allowance;
     if (ov >= severeA) {
       const a = perm[i];

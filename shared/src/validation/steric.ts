@@ -228,13 +228,17 @@ export interface StericEvaluation {
   limiting: { a: string; b: string; distanceA: number; normalA: number; outerA: number };
 }
 
-/** Pairs to test for a kind, computed once (the pair list does not depend on phi/psi). */
-function countedPairs(kind: StericKind): [number, number][] {
+/**
+ * Pairs to test for a kind with their [normal, outer] contact distances, computed once (neither
+ * depends on phi/psi; the report judges residues one by one, so the lookup is cached too).
+ */
+function countedPairs(kind: StericKind): [number, number, number, number][] {
   const atoms = buildDipeptide(kind, -60, -40);
-  const pairs: [number, number][] = [];
+  const pairs: [number, number, number, number][] = [];
   for (let i = 0; i < atoms.length; i++)
     for (let j = i + 1; j < atoms.length; j++)
-      if (pairVaries(atoms[i], atoms[j])) pairs.push([i, j]);
+      if (pairVaries(atoms[i], atoms[j]))
+        pairs.push([i, j, ...contact(atoms[i].element, atoms[j].element)]);
   return pairs;
 }
 
@@ -273,11 +277,10 @@ export function evaluateSteric(
     normalA: 0,
     outerA: 0,
   };
-  for (const [i, j] of pairsFor(kind)) {
+  for (const [i, j, normal, outer] of pairsFor(kind)) {
     const p = atoms[i].pos;
     const q = atoms[j].pos;
     const d = Math.hypot(p[0] - q[0], p[1] - q[1], p[2] - q[2]);
-    const [normal, outer] = contact(atoms[i].element, atoms[j].element);
     if (d < outer) status = 'disallowed';
     else if (d < normal && status === 'full') status = 'outer-limit';
     const ratio = d / normal;
@@ -300,8 +303,8 @@ export function evaluateSteric(
   return { status, limiting };
 }
 
-const pairCache = new Map<StericKind, [number, number][]>();
-function pairsFor(kind: StericKind): [number, number][] {
+const pairCache = new Map<StericKind, [number, number, number, number][]>();
+function pairsFor(kind: StericKind): [number, number, number, number][] {
   let p = pairCache.get(kind);
   if (!p) {
     p = countedPairs(kind);

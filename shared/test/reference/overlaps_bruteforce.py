@@ -1,7 +1,7 @@
 """All-atom severe overlaps by brute force over every atom pair, with python3-gemmi reading the
 file: an independent implementation of the rules in shared/src/validation/overlaps.ts.
 Rules: Bondi 1964 radii; zero-occupancy atoms and water hydrogens take no part; deposited H are
-moved along their bond (parent = nearest heavy atom within 1.3 A, compatible altloc) to the
+moved along their bond (parent = nearest heavy atom within 1.5 A, compatible altloc; S-H 1.34) to the
 electron-cloud X-H length (N 0.86, O 0.82, S 1.20; C: 0.96 with three H on the parent, 0.97
 with two, else 0.98 when the parent has three heavy neighbours within 1.75 A, 0.93 otherwise);
 different altlocs never meet; a water and a partially occupied atom never meet; bonds from
@@ -63,7 +63,7 @@ def main(path):
             if not compatible(atoms[i][4], atoms[a][4]):
                 continue
             d = dist(atoms[i][7], atoms[a][7])
-            if d <= 1.3 and (best is None or d < best[0]):
+            if d <= 1.5 and (best is None or d < best[0]):
                 best = (d, a)
         if best:
             parent[i] = best[1]
