@@ -17,7 +17,7 @@ import { readStructure } from '../io/read';
 import { buildConformers } from '../model/conformers';
 import { computeBackboneTorsions } from '../validation/torsions';
 import { nodeGunzip } from './node-gunzip';
-import { tiledCif } from './tile';
+import { tiledCif } from '../model/tile';
 
 const ROOT = resolve(__dirname, '../../..');
 const GEMMI_SCRIPT = join(ROOT, 'scripts/bench/gemmi_torsions.py');

@@ -15,7 +15,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { buildReport } from '../report/build';
 import { readStructure } from '../io/read';
-import { ResidueKind } from '../model/types';
+import { tiledCif } from '../model/tile';
 import { nodeGunzip } from './node-gunzip';
 
 const ROOT = resolve(__dirname, '../../..');
@@ -63,53 +63,9 @@ async function reportAll(
   };
 }
 
-/** mmCIF text of translated copies (150 Å apart, no contacts between copies) of a fixture's protein atoms. */
+/** mmCIF text of translated copies (no contacts between copies) of a fixture's protein atoms. */
 export async function tiled(source: string, targetAtoms: number): Promise<string> {
-  const s = await readStructure(readFileSync(source), source);
-  const m = s.models[0];
-  const S = s.strings;
-  const rows: number[] = [];
-  for (let a = 0; a < m.atoms.count; a++)
-    if (m.residues.kind[m.atoms.residue[a]] === ResidueKind.Protein) rows.push(a);
-  const copies = Math.ceil(targetAtoms / rows.length);
-  const side = Math.ceil(Math.cbrt(copies));
-  const fields = [
-    'group_PDB',
-    'id',
-    'type_symbol',
-    'label_atom_id',
-    'label_alt_id',
-    'label_comp_id',
-    'label_asym_id',
-    'label_entity_id',
-    'label_seq_id',
-    'Cartn_x',
-    'Cartn_y',
-    'Cartn_z',
-    'occupancy',
-    'B_iso_or_equiv',
-    'auth_seq_id',
-    'auth_asym_id',
-    'pdbx_PDB_model_num',
-  ];
-  const out: string[] = ['data_tiled', 'loop_', ...fields.map((f) => '_atom_site.' + f)];
-  let id = 0;
-  for (let c = 0; c < copies && id < targetAtoms; c++) {
-    const dx = (c % side) * 150;
-    const dy = (Math.floor(c / side) % side) * 150;
-    const dz = Math.floor(c / (side * side)) * 150;
-    for (const a of rows) {
-      if (id >= targetAtoms) break;
-      const r = m.atoms.residue[a];
-      const chain = `${S[m.chains.authId[m.residues.chain[r]]]}${c}`;
-      out.push(
-        `ATOM ${++id} ${S[m.atoms.element[a]]} ${S[m.atoms.name[a]]} ${S[m.atoms.altloc[a]] || '.'} ${S[m.residues.name[r]]} ${chain} 1 ${m.residues.authSeq[r]} ` +
-          `${(m.atoms.x[a] + dx).toFixed(3)} ${(m.atoms.y[a] + dy).toFixed(3)} ${(m.atoms.z[a] + dz).toFixed(3)} ${m.atoms.occupancy[a].toFixed(2)} ${m.atoms.bIso[a].toFixed(2)} ${m.residues.authSeq[r]} ${chain} 1`,
-      );
-    }
-  }
-  out.push('#', '');
-  return out.join('\n');
+  return tiledCif(await readStructure(readFileSync(source), source), targetAtoms).text;
 }
 
 /** Child mode: one full report, prints seconds, peak RSS and overlap count as JSON. */

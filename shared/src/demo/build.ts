@@ -21,6 +21,7 @@ import { idealCb } from '../validation/chirality';
 import { placeAtom } from '../geometry/place';
 import type { Vec3 } from '../geometry/place';
 import { ONE_TO_THREE, SIDE_CHAINS } from './sidechains';
+import { atomSiteLoopHeader } from '../model/tile';
 
 export type DemoFaultKind = 'cis-peptide' | 'd-residue' | 'stretched-bond';
 
@@ -381,32 +382,7 @@ export function writeMmcif(spec: DemoSpec, atoms: DemoAtom[]): string {
       out.push(`${c.id} ${i + 1} ${j + 1} ${m} ${j + 1} ${n} ${n} ${m} ${m} ${c.id} . n`);
     }),
   );
-  out.push('#', 'loop_');
-  for (const item of [
-    'group_PDB',
-    'id',
-    'type_symbol',
-    'label_atom_id',
-    'label_alt_id',
-    'label_comp_id',
-    'label_asym_id',
-    'label_entity_id',
-    'label_seq_id',
-    'pdbx_PDB_ins_code',
-    'Cartn_x',
-    'Cartn_y',
-    'Cartn_z',
-    'occupancy',
-    'B_iso_or_equiv',
-    'pdbx_formal_charge',
-    'auth_seq_id',
-    'auth_comp_id',
-    'auth_asym_id',
-    'auth_atom_id',
-    'pdbx_PDB_model_num',
-  ]) {
-    out.push(`_atom_site.${item}`);
-  }
+  out.push('#', ...atomSiteLoopHeader());
   atoms.forEach((a, i) => {
     out.push(
       [
