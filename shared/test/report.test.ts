@@ -6,7 +6,14 @@
 import { createHash } from 'crypto';
 import * as fs from 'fs';
 import * as path from 'path';
-import { buildReport, ENGINE_VERSION, REPORT_SCHEMA, StructureReadError } from '../src';
+import {
+  buildReport,
+  buildReportFromStructure,
+  ENGINE_VERSION,
+  readStructure,
+  REPORT_SCHEMA,
+  StructureReadError,
+} from '../src';
 import { runReportCommand } from '../src/cli/report';
 import { nodeGunzip } from '../src/cli/node-gunzip';
 import { nodeSha256 } from '../src/cli/node-sha256';
@@ -183,4 +190,24 @@ describe('experimental statistics in the report', () => {
       }
     },
   );
+});
+
+describe('progress hook', () => {
+  test('onStep names every per-model step in order, the overlap step once per model, and leaves the report unchanged', async () => {
+    const bytes = new Uint8Array(fs.readFileSync(path.join(FIXTURES, '2OFG.cif')));
+    const structure = await readStructure(bytes, '2OFG.cif');
+    const seen: Array<[string, number, number]> = [];
+    const withHook = buildReportFromStructure(structure, bytes, {
+      onStep: (step, i, n) => seen.push([step, i, n]),
+    });
+    const without = buildReportFromStructure(structure, bytes);
+    expect(JSON.stringify(withHook)).toBe(JSON.stringify(without));
+    const n = structure.models.length;
+    expect(seen.filter(([s]) => s === 'overlapStep').map(([, i]) => i)).toEqual(
+      Array.from({ length: n }, (_, i) => i),
+    );
+    expect(seen.every(([, , count]) => count === n)).toBe(true);
+    // model indices never go back
+    for (let k = 1; k < seen.length; k++) expect(seen[k][1]).toBeGreaterThanOrEqual(seen[k - 1][1]);
+  });
 });

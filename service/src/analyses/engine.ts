@@ -10,8 +10,8 @@ export interface EngineRunOptions {
 
 /**
  * Runs the engine exactly as `buildReport` does (read, analyse, add the file's experimental
- * records), split so the stages can be reported. The engine gives no finer progress yet: the
- * `geometry` stage covers every per-residue analysis, overlaps included.
+ * records), split so the stages can be reported: parse, geometry (every per-residue analysis),
+ * overlaps (the all-atom contact step), then the caller stores the result.
  */
 export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Promise<Report> {
   opts.onStage('parse', 0);
@@ -23,7 +23,14 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
     maxUncompressedBytes: limit,
   });
   opts.onStage('geometry', 0);
-  const report = shared.buildReportFromStructure(structure, bytes);
+  const report = shared.buildReportFromStructure(structure, bytes, {
+    // the all-atom overlap step is the long one: report it as its own stage
+    onStep: (step, i, n) =>
+      opts.onStage(
+        step === 'overlapStep' ? 'overlaps' : 'geometry',
+        (i + (step === 'overlapStep' ? 0.5 : 0)) / n,
+      ),
+  });
   await shared.completeReport(report, bytes, opts.filename);
   return report;
 }

@@ -42,6 +42,8 @@ export interface ReportOptions extends ReadOptions {
   timings?: Record<string, number>;
   /** platform SHA-256 (hex) to use instead of the pure-JS one, e.g. Node's crypto at the edge */
   sha256?: (bytes: Uint8Array) => string;
+  /** called before each per-model analysis step (progress reporting); the report is unchanged */
+  onStep?: (step: string, modelIndex: number, modelCount: number) => void;
 }
 
 /** Everything one model's analyses share. */
@@ -258,6 +260,7 @@ export function analyseModel(
   structure: Structure,
   model: Model,
   timings?: Record<string, number>,
+  onStep?: (step: string) => void,
 ): ModelContext {
   const t0 = timings !== undefined ? performance.now() : 0;
   const conformers = buildConformers(structure, model);
@@ -279,12 +282,16 @@ export function analyseModel(
     caOnly,
   };
   if (timings === undefined) {
-    for (const analysis of MODEL_ANALYSES) analysis(ctx);
+    for (const analysis of MODEL_ANALYSES) {
+      onStep?.(analysis.name);
+      analysis(ctx);
+    }
     return ctx;
   }
   timings['conformers+torsions+rows'] =
     (timings['conformers+torsions+rows'] ?? 0) + performance.now() - t0;
   for (const analysis of MODEL_ANALYSES) {
+    onStep?.(analysis.name);
     const t = performance.now();
     analysis(ctx);
     const key = analysis.name || 'anonymous';
@@ -297,7 +304,7 @@ export function analyseModel(
 export function buildReportFromStructure(
   structure: Structure,
   bytes: Uint8Array,
-  options: Pick<ReportOptions, 'model' | 'timings' | 'sha256'> = {},
+  options: Pick<ReportOptions, 'model' | 'timings' | 'sha256' | 'onStep'> = {},
 ): Report {
   let models = structure.models;
   if (options.model !== undefined) {
@@ -310,7 +317,9 @@ export function buildReportFromStructure(
       );
     }
   }
-  const contexts = models.map((m) => analyseModel(structure, m, options.timings));
+  const contexts = models.map((m, i) =>
+    analyseModel(structure, m, options.timings, (step) => options.onStep?.(step, i, models.length)),
+  );
   const report: Report = {
     schema: REPORT_SCHEMA,
     engine: { version: ENGINE_VERSION },
