@@ -2,6 +2,7 @@ import {
   type AnalysisSummaryDto,
   type LedgerDto,
   type LedgerResidueChange,
+  OUTLIER_FLAGS,
   type Report,
   type ResidueFlag,
   type Structure,
@@ -11,19 +12,6 @@ import { SUMMARY_KEYS } from '../analyses/summary.js';
 
 // ResidueKind.Protein in shared/src/model/types.ts (a const enum the service cannot import)
 const PROTEIN = 0;
-
-/** Flags that mark a residue as an outlier worth an author's attention (a "verdict"). */
-export const OUTLIER_FLAGS: readonly ResidueFlag[] = [
-  'rama-outlier',
-  'rotamer-outlier',
-  'steric-disallowed',
-  'cb-deviation',
-  'bond-outlier',
-  'angle-outlier',
-  'severe-overlap',
-  'd-residue',
-  'twisted-peptide',
-];
 
 export function residueKey(chain: string, seq: number, icode: string): string {
   return `${chain}:${seq}:${icode}`;

@@ -132,3 +132,6 @@ export interface HealthDto {
   database: boolean;
   redis: boolean;
 }
+
+// Outlier flags travel with the API contract so the UI can import the value without the engine.
+export { OUTLIER_FLAGS } from '../report/flags';

@@ -1,5 +1,6 @@
 // Plain-language cautions for the summary cards. Each threshold names its source.
-import type { AnalysisSummaryDto, ResidueFlag, ResidueRow } from '@foldfolio/shared';
+import type { AnalysisSummaryDto, ResidueRow } from '@foldfolio/shared';
+import { OUTLIER_FLAGS } from '@foldfolio/shared/api';
 
 export interface SummaryCard {
   id: string;
@@ -102,17 +103,8 @@ export function summaryCards(s: AnalysisSummaryDto, cisNonPro: number | null): S
   return cards;
 }
 
-export const OUTLIER_FLAGS: ResidueFlag[] = [
-  'rama-outlier',
-  'rotamer-outlier',
-  'steric-disallowed',
-  'cb-deviation',
-  'bond-outlier',
-  'angle-outlier',
-  'severe-overlap',
-  'd-residue',
-  'twisted-peptide',
-];
+// one list with the service's ledger (shared/src/report/flags.ts)
+export { OUTLIER_FLAGS };
 
 export function outlierCount(r: ResidueRow): number {
   let n = 0;
