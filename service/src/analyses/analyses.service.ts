@@ -124,17 +124,8 @@ export class AnalysesService implements OnApplicationBootstrap, OnModuleDestroy 
   }
 
   async report(modelVersionId: string): Promise<Report> {
-    const row = await this.analyses
-      .createQueryBuilder('a')
-      .addSelect('a.reportGz')
-      .where('a.modelVersionId = :id', { id: modelVersionId })
-      .getOne();
-    if (!row || row.status !== 'done' || !row.reportGz) {
-      throw new NotFoundException(
-        'This version has no finished analysis yet. Wait for the progress bar to complete, or re-upload if it failed.',
-      );
-    }
-    return JSON.parse(gunzipSync(row.reportGz).toString('utf8')) as Report;
+    const gz = await this.reportGzip(modelVersionId);
+    return JSON.parse(gunzipSync(gz).toString('utf8')) as Report;
   }
 }
 

@@ -1,22 +1,14 @@
 import { hostname } from 'node:os';
 import { createHash } from 'node:crypto';
 import { gzipSync } from 'node:zlib';
-import { Job, UnrecoverableError, Worker } from 'bullmq';
+import { Job, UnrecoverableError } from 'bullmq';
 import { DataSource } from 'typeorm';
 import type { AnalysisStage } from '@foldfolio/shared';
 import type { AppConfig } from '../config/app-config.js';
-import { dataSourceOptions } from '../database.js';
 import type { BlobStore } from '../storage/blob-store.js';
-import { FsBlobStore } from '../storage/fs-blob-store.js';
-import { storageSettings } from '../storage/storage.module.js';
 import { analyse } from './analysis-runner.js';
-import {
-  ANALYSIS_QUEUE,
-  type AnalysisJobData,
-  queuePrefix,
-  redisConnection,
-  workerSettings,
-} from './queue.js';
+import { type RunningQueueWorker, startQueueWorker } from './queue-worker.js';
+import { ANALYSIS_QUEUE, type AnalysisJobData, workerSettings } from './queue.js';
 import { summaryColumns } from './summary.js';
 
 // Progress (percent) at which each stage starts; the engine's own fraction moves within it.
@@ -28,11 +20,7 @@ const STAGE_START: Record<AnalysisStage, number> = {
   store: 95,
 };
 
-export interface RunningWorker {
-  worker: Worker<AnalysisJobData>;
-  db: DataSource;
-  close(): Promise<void>;
-}
+export type RunningWorker = RunningQueueWorker<AnalysisJobData>;
 
 /** Processes one analysis job against the database and store; exported for tests. */
 export async function processAnalysis(
@@ -156,34 +144,11 @@ async function recordFailure(db: DataSource, job: Job<AnalysisJobData> | undefin
 
 /** Starts a BullMQ worker for the analyses queue of `cfg`'s database. */
 export async function startAnalysisWorker(cfg: AppConfig): Promise<RunningWorker> {
-  const settings = workerSettings();
-  const db = new DataSource({ ...dataSourceOptions(cfg), migrationsRun: false });
-  await db.initialize();
-  const store = new FsBlobStore(storageSettings(cfg).root);
   const name = `${hostname()}:${process.pid}`;
-  const worker = new Worker<AnalysisJobData>(
-    ANALYSIS_QUEUE,
-    (job) => processAnalysis(db, store, job, name),
-    {
-      connection: redisConnection(cfg),
-      prefix: queuePrefix(cfg),
-      concurrency: settings.concurrency,
-      lockDuration: settings.lockDurationMs,
-      stalledInterval: settings.stalledIntervalMs,
-      // a job whose worker died is retried this many times before it is failed
-      maxStalledCount: settings.attempts,
-    },
-  );
-  worker.on('failed', (job, err) => {
-    void recordFailure(db, job, err).catch(() => undefined);
+  return startQueueWorker<AnalysisJobData>(cfg, {
+    queue: ANALYSIS_QUEUE,
+    concurrency: workerSettings().concurrency,
+    process: (db, store, job) => processAnalysis(db, store, job, name),
+    recordFailure,
   });
-  await worker.waitUntilReady();
-  return {
-    worker,
-    db,
-    async close() {
-      await worker.close();
-      await db.destroy();
-    },
-  };
 }

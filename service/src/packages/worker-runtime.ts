@@ -1,12 +1,9 @@
 import { Readable } from 'node:stream';
-import { Job, UnrecoverableError, Worker } from 'bullmq';
+import { Job, UnrecoverableError } from 'bullmq';
 import { DataSource } from 'typeorm';
-import { queuePrefix, redisConnection, workerSettings } from '../analyses/queue.js';
+import { type RunningQueueWorker, startQueueWorker } from '../analyses/queue-worker.js';
 import type { AppConfig } from '../config/app-config.js';
-import { dataSourceOptions } from '../database.js';
 import type { BlobStore } from '../storage/blob-store.js';
-import { FsBlobStore } from '../storage/fs-blob-store.js';
-import { storageSettings } from '../storage/storage.module.js';
 import { newId } from '../common/tokens.js';
 import type { MethodsForm } from '../tables/values.js';
 import {
@@ -18,10 +15,7 @@ import {
 } from './build.js';
 import { PACKAGE_QUEUE, type PackageJobData } from './queue.js';
 
-export interface RunningPackageWorker {
-  worker: Worker<PackageJobData>;
-  close(): Promise<void>;
-}
+export type RunningPackageWorker = RunningQueueWorker<PackageJobData>;
 
 async function audit(
   db: DataSource,
@@ -211,32 +205,11 @@ async function recordFailure(db: DataSource, job: Job<PackageJobData> | undefine
 
 /** Starts a BullMQ worker for the packages queue of `cfg`'s database (same Redis prefix as analyses). */
 export async function startPackageWorker(cfg: AppConfig): Promise<RunningPackageWorker> {
-  const settings = workerSettings();
-  const db = new DataSource({ ...dataSourceOptions(cfg), migrationsRun: false });
-  await db.initialize();
-  const store = new FsBlobStore(storageSettings(cfg).root);
-  const worker = new Worker<PackageJobData>(
-    PACKAGE_QUEUE,
-    (job) => processPackage(db, store, job),
-    {
-      connection: redisConnection(cfg),
-      prefix: queuePrefix(cfg),
-      // one package at a time: figure rendering and the engine are CPU-bound
-      concurrency: 1,
-      lockDuration: settings.lockDurationMs,
-      stalledInterval: settings.stalledIntervalMs,
-      maxStalledCount: settings.attempts,
-    },
-  );
-  worker.on('failed', (job, err) => {
-    void recordFailure(db, job, err).catch(() => undefined);
+  return startQueueWorker<PackageJobData>(cfg, {
+    queue: PACKAGE_QUEUE,
+    // one package at a time: figure rendering and the engine are CPU-bound
+    concurrency: 1,
+    process: processPackage,
+    recordFailure,
   });
-  await worker.waitUntilReady();
-  return {
-    worker,
-    async close() {
-      await worker.close();
-      await db.destroy();
-    },
-  };
 }
