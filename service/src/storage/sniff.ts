@@ -1,5 +1,5 @@
 import { constants, gunzipSync } from 'node:zlib';
-import type { InputFormat } from '@foldfolio/shared';
+import { type InputFormat, sniffPlainFormat } from '@foldfolio/shared';
 
 export interface SniffedFormat {
   format: InputFormat;
@@ -23,97 +23,12 @@ export class EmptyUploadError extends Error {
   }
 }
 
-// Record names that may open a PDB file (wwPDB PDB format 3.3, section headings; common practice).
-const PDB_RECORDS = new Set([
-  'HEADER',
-  'OBSLTE',
-  'TITLE',
-  'SPLIT',
-  'CAVEAT',
-  'COMPND',
-  'SOURCE',
-  'KEYWDS',
-  'EXPDTA',
-  'NUMMDL',
-  'MDLTYP',
-  'AUTHOR',
-  'REVDAT',
-  'SPRSDE',
-  'JRNL',
-  'REMARK',
-  'DBREF',
-  'DBREF1',
-  'SEQADV',
-  'SEQRES',
-  'MODRES',
-  'HET',
-  'HETNAM',
-  'HETSYN',
-  'FORMUL',
-  'HELIX',
-  'SHEET',
-  'SSBOND',
-  'LINK',
-  'CISPEP',
-  'SITE',
-  'CRYST1',
-  'ORIGX1',
-  'SCALE1',
-  'MTRIX1',
-  'MODEL',
-  'ATOM',
-  'HETATM',
-  'ANISOU',
-  'TER',
-  'END',
-  'ENDMDL',
-  'CONECT',
-  'MASTER',
-]);
-
-function isText(bytes: Buffer): boolean {
-  const n = Math.min(bytes.length, 4096);
-  if (n === 0) return false;
-  let control = 0;
-  for (let i = 0; i < n; i++) {
-    const c = bytes[i];
-    if (c === 0) return false;
-    if (c < 9 || (c > 13 && c < 32)) control++;
-  }
-  // a few stray control bytes are tolerated, 1 % is common practice for text detection, no source
-  return control <= n / 100;
-}
-
-function firstMeaningfulLine(text: string, skipHash: boolean): string | null {
-  for (const raw of text.split('\n')) {
-    const line = raw.replace(/\r$/, '');
-    if (line.trim() === '') continue;
-    if (skipHash && line.trim().startsWith('#')) continue;
-    return line;
-  }
-  return null;
-}
-
+// What the bytes are is decided by the engine's own test (shared/src/io/read.ts), so an upload
+// accepted here is one the analysis worker can read. Here only the head of the upload is at hand
+// (the gzip stream is partly inflated) and the error sentences are the upload's own. No filename
+// hint is passed: the extension is never trusted.
 function sniffPlain(bytes: Buffer): InputFormat | null {
-  const b0 = bytes[0];
-  // BinaryCIF is a MessagePack map (fixmap 0x80–0x8f, map16 0xde, map32 0xdf) whose keys include
-  // "encoder", "version" and "dataBlocks" (BinaryCIF specification, molstar/BinaryCIF on GitHub).
-  if ((b0 >= 0x80 && b0 <= 0x8f) || b0 === 0xde || b0 === 0xdf) {
-    const head = bytes.subarray(0, 512).toString('latin1');
-    if (head.includes('dataBlocks') || head.includes('encoder')) return 'bcif';
-    return null;
-  }
-  if (!isText(bytes)) return null;
-  const text = bytes.subarray(0, 16384).toString('latin1');
-  const cifLine = firstMeaningfulLine(text, true);
-  // A CIF file starts with a data block header (CIF 1.1 syntax); comments may precede it.
-  if (cifLine !== null && cifLine.trim().toLowerCase().startsWith('data_')) return 'mmcif';
-  const pdbLine = firstMeaningfulLine(text, false);
-  if (pdbLine !== null) {
-    const record = pdbLine.slice(0, 6).trim().toUpperCase();
-    if (PDB_RECORDS.has(record)) return 'pdb';
-  }
-  return null;
+  return sniffPlainFormat(bytes);
 }
 
 /**

@@ -122,6 +122,29 @@ function isPdbText(head: string): boolean {
   return false;
 }
 
+/**
+ * The format of uncompressed coordinate bytes from their first few kB (BinaryCIF, mmCIF or PDB),
+ * or null when they are none of these. Only the head is read, so a leading slice of a file is
+ * enough; a PDB/ENT filename only rescues PDB text whose first record we do not know.
+ */
+export function sniffPlainFormat(bytes: Uint8Array, filenameHint = ''): InputFormat | null {
+  if (bytes.length === 0) return null;
+  const b0 = bytes[0];
+  // BinaryCIF is a MessagePack map (fixmap 0x80–0x8f, map16 0xde, map32 0xdf) holding "encoder"/"dataBlocks"
+  if ((b0 >= 0x80 && b0 <= 0x8f) || b0 === 0xde || b0 === 0xdf) {
+    const head = headText(bytes, 256);
+    if (head.includes('dataBlocks') || head.includes('encoder')) return 'bcif';
+  }
+  if (looksLikeText(bytes)) {
+    const head = headText(bytes, 4096);
+    if (isCifText(head)) return 'mmcif';
+    if (isPdbText(head)) return 'pdb';
+    const hint = filenameHint.toLowerCase();
+    if (/\.(pdb|ent)(\.gz)?$/.test(hint) && head.includes('ATOM  ')) return 'pdb';
+  }
+  return null;
+}
+
 /** Decide the format and decompress. Throws StructureReadError on anything unrecognisable. */
 export function sniffStructure(
   input: Uint8Array,
@@ -151,21 +174,8 @@ export function sniffStructure(
       );
     }
   }
-  const b0 = bytes[0];
-  // BinaryCIF is a MessagePack map (fixmap 0x80–0x8f, map16 0xde, map32 0xdf) holding "encoder"/"dataBlocks"
-  if ((b0 >= 0x80 && b0 <= 0x8f) || b0 === 0xde || b0 === 0xdf) {
-    const head = headText(bytes, 256);
-    if (head.includes('dataBlocks') || head.includes('encoder'))
-      return { format: 'bcif', gzip, bytes };
-  }
-  if (looksLikeText(bytes)) {
-    const head = headText(bytes, 4096);
-    if (isCifText(head)) return { format: 'mmcif', gzip, bytes };
-    if (isPdbText(head)) return { format: 'pdb', gzip, bytes };
-    const hint = filenameHint.toLowerCase();
-    if (/\.(pdb|ent)(\.gz)?$/.test(hint) && head.includes('ATOM  '))
-      return { format: 'pdb', gzip, bytes };
-  }
+  const format = sniffPlainFormat(bytes, filenameHint);
+  if (format !== null) return { format, gzip, bytes };
   throw new StructureReadError(
     `${label} is not a coordinate file Foldfolio can read (expected PDBx/mmCIF text starting with "data_", BinaryCIF, or PDB records such as ATOM/HETATM, optionally gzip-compressed); check that you picked the model file and upload it again.`,
     { item: 'format' },
