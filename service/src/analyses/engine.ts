@@ -19,9 +19,8 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
   const limit = Number(
     process.env.FOLDFOLIO_MAX_UNCOMPRESSED_BYTES ?? shared.DEFAULT_MAX_UNCOMPRESSED_BYTES,
   );
-  const structure = await shared.readStructure(bytes, opts.filename, {
-    maxUncompressedBytes: limit,
-  });
+  const readOptions = { maxUncompressedBytes: limit };
+  const structure = await shared.readStructure(bytes, opts.filename, readOptions);
   opts.onStage('geometry', 0);
   const report = shared.buildReportFromStructure(structure, bytes, {
     // the all-atom overlap step is the long one: report it as its own stage
@@ -31,6 +30,6 @@ export async function runEngine(bytes: Uint8Array, opts: EngineRunOptions): Prom
         (i + (step === 'overlapStep' ? 0.5 : 0)) / n,
       ),
   });
-  await shared.completeReport(report, bytes, opts.filename);
+  await shared.completeReport(report, bytes, opts.filename, readOptions);
   return report;
 }

@@ -5,7 +5,8 @@
 import { CIF } from 'molstar/lib/commonjs/mol-io/reader/cif';
 import type { CifBlock, CifField } from 'molstar/lib/commonjs/mol-io/reader/cif/data-model';
 import type { ExperimentalValue } from '../report/types';
-import { sniffStructure } from '../io/read';
+import { sniffStructure, type ReadOptions } from '../io/read';
+import { scanAtomSite } from '../io/cif-atom-site';
 import { EXPERIMENT_FIELDS, type ExperimentMethod } from './fields';
 
 export interface ExperimentalStats {
@@ -253,12 +254,35 @@ export function experimentRecord(stats: ExperimentalStats): Record<string, Exper
   return out;
 }
 
-/** Any supported upload (mmCIF, BinaryCIF, PDB, each optionally gzip) → experimental statistics. */
+/** Byte offset of the first coordinate record of a PDB file (headers always precede it). */
+function pdbHeaderEnd(b: Uint8Array): number {
+  const text = new TextDecoder().decode(b.subarray(0, Math.min(b.length, 1 << 22)));
+  const m = /^(ATOM {2}|HETATM|MODEL )/m.exec(text);
+  return m ? new TextEncoder().encode(text.slice(0, m.index)).length : b.length;
+}
+
+/**
+ * Any supported upload (mmCIF, BinaryCIF, PDB, each optionally gzip) → experimental statistics.
+ * Only the records that can hold them are parsed: the PDB header before the coordinates, and an
+ * mmCIF file without its `_atom_site` rows (found by the reader's byte scanner).
+ */
 export async function readExperimentFromBytes(
   bytes: Uint8Array,
   filenameHint = '',
+  options: ReadOptions = {},
 ): Promise<ExperimentalStats> {
-  const s = sniffStructure(bytes, filenameHint);
+  const s = sniffStructure(bytes, filenameHint, options);
   if (s.format === 'bcif') return readExperimentFromBinaryCif(s.bytes);
-  return readExperimentFromText(new TextDecoder().decode(s.bytes));
+  const utf8 = new TextDecoder();
+  if (s.format === 'pdb')
+    return readExperimentFromPdb(utf8.decode(s.bytes.subarray(0, pdbHeaderEnd(s.bytes))));
+  const scan = scanAtomSite(s.bytes);
+  if (scan === null) return readExperimentFromText(utf8.decode(s.bytes));
+  const rest =
+    utf8.decode(s.bytes.subarray(0, scan.loopStart)) + utf8.decode(s.bytes.subarray(scan.dataEnd));
+  const parsed = await CIF.parse(rest).run();
+  const block = parsed.isError ? undefined : parsed.result.blocks[0];
+  // a file holding nothing but its atoms states no experiment
+  if (block === undefined) return { method: 'unknown', values: {} };
+  return readExperimentFromCifBlock(block);
 }

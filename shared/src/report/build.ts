@@ -353,7 +353,7 @@ export async function buildReport(bytes: Uint8Array, options: ReportOptions = {}
   if (options.timings !== undefined) options.timings['read'] = performance.now() - t0;
   const report = buildReportFromStructure(structure, bytes, options);
   const t1 = options.timings !== undefined ? performance.now() : 0;
-  await completeReport(report, bytes, options.filename ?? '');
+  await completeReport(report, bytes, options.filename ?? '', options);
   if (options.timings !== undefined) options.timings['experiment'] = performance.now() - t1;
   return report;
 }
@@ -363,8 +363,9 @@ export async function completeReport(
   report: Report,
   bytes: Uint8Array,
   filename = '',
+  options: ReadOptions = {},
 ): Promise<void> {
-  await addExperiment(report, bytes, filename);
+  await addExperiment(report, bytes, filename, options);
   report.cautions.push(...reportCautions(report));
 }
 
@@ -377,9 +378,10 @@ export async function addExperiment(
   report: Report,
   bytes: Uint8Array,
   filename = '',
+  options: ReadOptions = {},
 ): Promise<void> {
   try {
-    const stats = await readExperimentFromBytes(bytes, filename);
+    const stats = await readExperimentFromBytes(bytes, filename, options);
     report.method = stats.method;
     report.experiment = experimentRecord(stats);
   } catch (err) {
