@@ -2,18 +2,23 @@
 // Debian's Chromium: gallery with readiness badges and a PDF export, the methods form with
 // provenance and an override reaching the preview, and a template forked, broken (the error's
 // line is shown), fixed, saved as version 2, pinned and compared with the built-in.
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createConnection } from 'mysql2/promise';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import {
   apiPost,
+  dbSettings,
   launchBrowser,
   registerViaApi,
   ROOT,
-  SCREENSHOTS,
+  shot,
+  signInToDesk,
   startService,
+  uploadModel,
+  waitForAnalysis,
+  watchPageErrors,
   type Person,
   type RunningService,
 } from './harness';
@@ -40,16 +45,7 @@ const pageErrors: string[] = [];
 
 /** Adds a membership straight in the test's own database (the invitation flow has its own test). */
 async function addMember(dbName: string, email: string, manuscriptId: string, role: string) {
-  const pwFile = join(process.env.FOLDFOLIO_VAR ?? join(ROOT, 'var'), 'db-password');
-  const conn = await createConnection({
-    host: process.env.FOLDFOLIO_DB_HOST ?? '127.0.0.1',
-    port: Number(process.env.FOLDFOLIO_DB_PORT ?? 33061),
-    user: process.env.FOLDFOLIO_DB_USER ?? 'foldfolio',
-    password:
-      process.env.FOLDFOLIO_DB_PASSWORD ??
-      (existsSync(pwFile) ? readFileSync(pwFile, 'utf8').trim() : ''),
-    database: dbName,
-  });
+  const conn = await createConnection({ ...dbSettings(), database: dbName });
   try {
     await conn.query(
       'INSERT INTO memberships (id, manuscript_id, user_id, role) SELECT UUID(), ?, id, ? FROM users WHERE email = ?',
@@ -58,14 +54,6 @@ async function addMember(dbName: string, email: string, manuscriptId: string, ro
   } finally {
     await conn.end();
   }
-}
-
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({
-    path: join(SCREENSHOTS, `${name}.png`),
-    fullPage: true,
-    animations: 'disabled',
-  });
 }
 
 beforeAll(async () => {
@@ -89,38 +77,18 @@ test('figures, methods table and templates in the browser', async () => {
   const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
     title: 'Fernhollow lectin domain',
   });
-  const form = new FormData();
-  form.append('file', new Blob([readFileSync(STRUCTURE)]), '1A8O.cif');
-  const up = await fetch(`${service.url}/api/manuscripts/${ms.id}/models`, {
-    method: 'POST',
-    headers: { Authorization: `Bearer ${token}` },
-    body: form,
-  });
+  const up = await uploadModel(service.url, token, ms.id, STRUCTURE);
   expect(up.status).toBe(201);
   const version = (await up.json()) as { id: string };
-  for (let i = 0; ; i++) {
-    const a = (await (
-      await fetch(`${service.url}/api/manuscripts/${ms.id}/models/${version.id}/analysis`, {
-        headers: { Authorization: `Bearer ${token}` },
-      })
-    ).json()) as { status: string };
-    if (a.status === 'done') break;
-    if (a.status === 'failed' || i > 600) throw new Error(`analysis ${a.status}`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
+  await waitForAnalysis(service.url, token, ms.id, version.id);
 
   const ctx = await browser.newContext({
     baseURL: service.url,
     viewport: VIEWPORT,
     acceptDownloads: true,
   });
-  const page = await ctx.newPage();
-  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail address').fill(OWNER.email);
-  await page.getByLabel('Password').fill(OWNER.password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/desk$/);
+  const page = watchPageErrors(await ctx.newPage(), pageErrors);
+  await signInToDesk(page, OWNER);
 
   // Figures: every card draws its SVG (the comparison figure explains it needs two versions)
   await page.goto(`/manuscripts/${ms.id}/figures`);
@@ -231,13 +199,8 @@ test('figures, methods table and templates in the browser', async () => {
   await registerViaApi(service.url, COMMENTER);
   await addMember(service.dbName, COMMENTER.email, ms.id, 'commenter');
   const cctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
-  const cpage = await cctx.newPage();
-  cpage.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
-  await cpage.goto('/sign-in');
-  await cpage.getByLabel('E-mail address').fill(COMMENTER.email);
-  await cpage.getByLabel('Password').fill(COMMENTER.password);
-  await cpage.getByRole('button', { name: 'Sign in' }).click();
-  await cpage.waitForURL(/\/desk$/);
+  const cpage = watchPageErrors(await cctx.newPage(), pageErrors);
+  await signInToDesk(cpage, COMMENTER);
   await cpage.goto(`/manuscripts/${ms.id}/methods-table`);
   await cpage.getByTestId('methods-table-preview').locator('table').waitFor({ timeout: 30_000 });
   expect(await cpage.getByTestId('methods-form').locator('input').count()).toBe(0);

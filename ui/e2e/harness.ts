@@ -4,9 +4,9 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
-import { join, resolve } from 'node:path';
+import { basename, join, resolve } from 'node:path';
 import { createConnection } from 'mysql2/promise';
-import { chromium, type Browser } from 'playwright-core';
+import { chromium, type Browser, type Page } from 'playwright-core';
 
 export const ROOT = resolve(__dirname, '../..');
 export const SCREENSHOTS = join(ROOT, 'test-output', 'screenshots');
@@ -24,7 +24,8 @@ export function freePort(): Promise<number> {
   });
 }
 
-function dbSettings() {
+/** MariaDB connection settings of the app user (same environment variables as the service). */
+export function dbSettings() {
   const varDir = process.env.FOLDFOLIO_VAR ?? join(ROOT, 'var');
   const pwFile = join(varDir, 'db-password');
   const password =
@@ -180,4 +181,93 @@ export async function apiPost<T>(
   });
   if (!res.ok) throw new Error(`POST ${path}: ${res.status} ${await res.text()}`);
   return (await res.json()) as T;
+}
+
+export async function apiGet<T>(url: string, token: string, path: string): Promise<T> {
+  const res = await fetch(`${url}${path}`, { headers: { Authorization: `Bearer ${token}` } });
+  if (!res.ok) throw new Error(`GET ${path}: ${res.status} ${await res.text()}`);
+  return (await res.json()) as T;
+}
+
+/** Signs in through the API and returns the access token. */
+export async function signInViaApi(url: string, who: Person): Promise<string> {
+  const res = await fetch(`${url}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { 'Content-Type': 'application/json' },
+    body: JSON.stringify({ email: who.email, password: who.password }),
+  });
+  if (!res.ok) throw new Error(`sign in ${who.email}: ${res.status} ${await res.text()}`);
+  return ((await res.json()) as { accessToken: string }).accessToken;
+}
+
+/** Uploads a coordinate file as a new model version; the caller checks the response status. */
+export function uploadModel(
+  url: string,
+  token: string,
+  manuscriptId: string,
+  file: string,
+): Promise<Response> {
+  const form = new FormData();
+  form.append('file', new Blob([readFileSync(file)]), basename(file));
+  return fetch(`${url}/api/manuscripts/${manuscriptId}/models`, {
+    method: 'POST',
+    headers: { Authorization: `Bearer ${token}` },
+    body: form,
+  });
+}
+
+/** Polls a version's analysis until it is done (throws if it fails or takes over a minute). */
+export async function waitForAnalysis(
+  url: string,
+  token: string,
+  manuscriptId: string,
+  versionId: string,
+): Promise<void> {
+  for (let i = 0; ; i++) {
+    const a = await apiGet<{ status: string }>(
+      url,
+      token,
+      `/api/manuscripts/${manuscriptId}/models/${versionId}/analysis`,
+    );
+    if (a.status === 'done') return;
+    if (a.status === 'failed' || i > 600) throw new Error(`analysis ${a.status}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+/** Collects the page's uncaught errors into `errors` (each test asserts the list stays empty). */
+export function watchPageErrors(page: Page, errors: string[]): Page {
+  page.on('pageerror', (err) => errors.push(`${err.name}: ${err.message}`));
+  return page;
+}
+
+export async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({
+    path: join(SCREENSHOTS, `${name}.png`),
+    fullPage: true,
+    animations: 'disabled',
+  });
+}
+
+/** Fills and submits the sign-up form (the e-mail may already be filled in by an invitation). */
+export async function fillRegister(page: Page, who: Person): Promise<void> {
+  await page.getByLabel('Your name').fill(who.name);
+  const email = page.getByLabel('E-mail address');
+  if ((await email.inputValue()) !== who.email) await email.fill(who.email);
+  await page.getByLabel('Password').fill(who.password);
+  await page.getByRole('button', { name: 'Create account' }).click();
+}
+
+/** Fills and submits the sign-in form of the current page. */
+export async function fillSignIn(page: Page, who: Person, password = who.password): Promise<void> {
+  await page.getByLabel('E-mail address').fill(who.email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/** Opens the sign-in page, signs in and waits for the Desk. */
+export async function signInToDesk(page: Page, who: Person): Promise<void> {
+  await page.goto('/sign-in');
+  await fillSignIn(page, who);
+  await page.waitForURL(/\/desk$/);
 }

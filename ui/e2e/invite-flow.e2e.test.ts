@@ -2,14 +2,16 @@
 // Debian's Chromium: register → create a manuscript → invite → the coauthor opens the mailed link
 // in a second browser, registers, accepts → both see the membership; then role change, revoke,
 // leave; the Desk's sorting and archive; password reset through the mailed link.
-import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import {
   apiPost,
+  fillRegister,
+  fillSignIn,
   launchBrowser,
   registerViaApi,
-  SCREENSHOTS,
+  shot,
   startService,
+  watchPageErrors,
   type Person,
   type RunningService,
 } from './harness';
@@ -61,31 +63,7 @@ let adminPage: Page | null = null;
 const pageErrors: string[] = [];
 
 async function newPage(ctx: BrowserContext): Promise<Page> {
-  const page = await ctx.newPage();
-  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
-  return page;
-}
-
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({
-    path: join(SCREENSHOTS, `${name}.png`),
-    fullPage: true,
-    animations: 'disabled',
-  });
-}
-
-async function fillRegister(page: Page, who: Person): Promise<void> {
-  await page.getByLabel('Your name').fill(who.name);
-  const email = page.getByLabel('E-mail address');
-  if ((await email.inputValue()) !== who.email) await email.fill(who.email);
-  await page.getByLabel('Password').fill(who.password);
-  await page.getByRole('button', { name: 'Create account' }).click();
-}
-
-async function signIn(page: Page, who: Person, password = who.password): Promise<void> {
-  await page.getByLabel('E-mail address').fill(who.email);
-  await page.getByLabel('Password').fill(password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
+  return watchPageErrors(await ctx.newPage(), pageErrors);
 }
 
 /** The admin's page, signed in once and reused. */
@@ -94,7 +72,7 @@ async function adminSession(): Promise<Page> {
     const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
     adminPage = await newPage(ctx);
     await adminPage.goto('/sign-in?next=%2Fadmin%2Foutbox');
-    await signIn(adminPage, ADMIN);
+    await fillSignIn(adminPage, ADMIN);
     await adminPage.waitForURL(/\/admin\/outbox$/);
   }
   return adminPage;
@@ -298,7 +276,7 @@ test('Desk sorts by column, renames, archives and restores', async () => {
   const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const page = await newPage(ctx);
   await page.goto('/sign-in');
-  await signIn(page, SORTER);
+  await fillSignIn(page, SORTER);
   await page.waitForURL(/\/desk$/);
   const desk = page.getByTestId('desk-table');
   const titles = async () =>
@@ -366,7 +344,7 @@ test('password reset through the mailed link', async () => {
 
   // the old password no longer works and the page says so; the new one does
   await page.getByRole('link', { name: 'Sign in', exact: true }).click();
-  await signIn(page, FORGETFUL);
+  await fillSignIn(page, FORGETFUL);
   await page.locator('.ff-problem').waitFor();
   expect(page.url()).toContain('/sign-in');
   await shot(page, '16-sign-in-refused');
@@ -422,7 +400,7 @@ test('admin: the last admin cannot step down; promote someone; delete an account
   const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const promoted = await newPage(ctx);
   await promoted.goto('/sign-in');
-  await signIn(promoted, PROMOTED);
+  await fillSignIn(promoted, PROMOTED);
   await promoted.waitForURL(/\/desk$/);
   await promoted.locator('.ff-navbar').getByRole('link', { name: 'Admin' }).click();
   await promoted.getByTestId('users-table').waitFor();

@@ -3,17 +3,20 @@
 // reviewer link → open it in a fresh browser context (no sign-in) → see a figure → download the
 // zip → `foldfolio verify` passes on the downloaded bytes; the owner's access log shows it.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import {
   apiPost,
   launchBrowser,
   registerViaApi,
   ROOT,
-  SCREENSHOTS,
+  shot,
+  signInToDesk,
   startService,
+  uploadModel,
+  watchPageErrors,
   type Person,
   type RunningService,
 } from './harness';
@@ -32,14 +35,6 @@ let service: RunningService;
 let browser: Browser;
 let dir: string;
 const pageErrors: string[] = [];
-
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({
-    path: join(SCREENSHOTS, `${name}.png`),
-    fullPage: true,
-    animations: 'disabled',
-  });
-}
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'ff-pkg-e2e-'));
@@ -62,13 +57,7 @@ test('freeze → reviewer link in a fresh context → download → verify passes
   const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
     title: 'Saltmarsh capsid domain, refined',
   });
-  const form = new FormData();
-  form.append('file', new Blob([readFileSync(STRUCTURE)]), '1A8O.cif');
-  const up = await fetch(`${service.url}/api/manuscripts/${ms.id}/models`, {
-    method: 'POST',
-    headers: { Authorization: `Bearer ${token}` },
-    body: form,
-  });
+  const up = await uploadModel(service.url, token, ms.id, STRUCTURE);
   expect(up.status).toBe(201);
 
   // the owner freezes a package in the tab
@@ -77,13 +66,8 @@ test('freeze → reviewer link in a fresh context → download → verify passes
     viewport: VIEWPORT,
     acceptDownloads: true,
   });
-  const page = await ctx.newPage();
-  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail address').fill(OWNER.email);
-  await page.getByLabel('Password').fill(OWNER.password);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/desk$/);
+  const page = watchPageErrors(await ctx.newPage(), pageErrors);
+  await signInToDesk(page, OWNER);
   await page.goto(`/manuscripts/${ms.id}/review-packages`);
   await page.getByText('Version 1', { exact: true }).click();
   await page.getByText(/^Anonymise/).click();
@@ -100,8 +84,7 @@ test('freeze → reviewer link in a fresh context → download → verify passes
 
   // a reviewer, in a fresh context with no session, opens the link
   const rctx = await browser.newContext({ viewport: VIEWPORT, acceptDownloads: true });
-  const reviewer = await rctx.newPage();
-  reviewer.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  const reviewer = watchPageErrors(await rctx.newPage(), pageErrors);
   await reviewer.goto(url);
   await reviewer.getByTestId('review-title').waitFor();
   expect(await reviewer.getByTestId('review-title').textContent()).toBe(

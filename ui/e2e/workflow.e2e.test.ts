@@ -4,14 +4,18 @@
 // residue → comment with a mention → the mentioned member's e-mail arrives in the Outbox.
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import {
+  apiGet,
   apiPost,
+  fillRegister,
   launchBrowser,
   registerViaApi,
   ROOT,
-  SCREENSHOTS,
+  shot,
+  signInViaApi,
   startService,
+  watchPageErrors,
   type Person,
   type RunningService,
 } from './harness';
@@ -35,22 +39,6 @@ let service: RunningService;
 let browser: Browser;
 const pageErrors: string[] = [];
 
-async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({
-    path: join(SCREENSHOTS, `${name}.png`),
-    fullPage: true,
-    animations: 'disabled',
-  });
-}
-
-async function apiGet<T>(token: string, path: string): Promise<T> {
-  const res = await fetch(`${service.url}${path}`, {
-    headers: { Authorization: `Bearer ${token}` },
-  });
-  if (!res.ok) throw new Error(`GET ${path}: ${res.status} ${await res.text()}`);
-  return (await res.json()) as T;
-}
-
 beforeAll(async () => {
   service = await startService();
   browser = await launchBrowser();
@@ -67,15 +55,11 @@ afterEach(() => {
 
 test('upload → progress → Quality summary → residue → comment with a mention → mail in the Outbox', async () => {
   const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
-  const page = await ctx.newPage();
-  page.on('pageerror', (err) => pageErrors.push(`${err.name}: ${err.message}`));
+  const page = watchPageErrors(await ctx.newPage(), pageErrors);
 
   // register in the browser (the first account of a fresh install is its admin)
   await page.goto('/register');
-  await page.getByLabel('Your name').fill(OWNER.name);
-  await page.getByLabel('E-mail address').fill(OWNER.email);
-  await page.getByLabel('Password').fill(OWNER.password);
-  await page.getByRole('button', { name: 'Create account' }).click();
+  await fillRegister(page, OWNER);
   await page.waitForURL(/\/desk$/);
 
   await page.getByRole('button', { name: 'New manuscript' }).first().click();
@@ -85,27 +69,24 @@ test('upload → progress → Quality summary → residue → comment with a men
   const manuscriptId = new URL(page.url()).pathname.split('/')[2];
 
   // the coauthor joins as a commenter through the real invitation (link read from the sink)
-  const ownerToken = (
-    (await (
-      await fetch(`${service.url}/api/auth/sign-in`, {
-        method: 'POST',
-        headers: { 'Content-Type': 'application/json' },
-        body: JSON.stringify({ email: OWNER.email, password: OWNER.password }),
-      })
-    ).json()) as { accessToken: string }
-  ).accessToken;
+  const ownerToken = await signInViaApi(service.url, OWNER);
   const coToken = await registerViaApi(service.url, COAUTHOR);
   await apiPost(service.url, ownerToken, `/api/manuscripts/${manuscriptId}/invitations`, {
     email: COAUTHOR.email,
     role: 'commenter',
   });
   const box = await apiGet<{ id: string; to: string; subject: string }[]>(
+    service.url,
     ownerToken,
     '/api/admin/outbox',
   );
   const invite = box.find((m) => m.to === COAUTHOR.email);
   if (!invite) throw new Error('the invitation mail did not arrive');
-  const mail = await apiGet<{ links: string[] }>(ownerToken, `/api/admin/outbox/${invite.id}`);
+  const mail = await apiGet<{ links: string[] }>(
+    service.url,
+    ownerToken,
+    `/api/admin/outbox/${invite.id}`,
+  );
   const token = mail.links.map((l) => l.match(/\/invitations\/([^/?#]+)/)?.[1]).find(Boolean);
   await apiPost(service.url, coToken, `/api/invitations/${token}/accept`, {});
 
