@@ -2,25 +2,21 @@
 // Debian's Chromium: gallery with readiness badges and a PDF export, the methods form with
 // provenance and an override reaching the preview, and a template forked, broken (the error's
 // line is shown), fixed, saved as version 2, pinned and compared with the built-in.
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createConnection } from 'mysql2/promise';
-import type { Browser } from 'playwright-core';
 import {
   apiPost,
+  browserSuite,
   dbSettings,
-  launchBrowser,
   registerViaApi,
   ROOT,
   shot,
   signInToDesk,
-  startService,
   uploadModel,
   waitForAnalysis,
   watchPageErrors,
   type Person,
-  type RunningService,
 } from './harness';
 
 // invented person (demo data rule: no real names)
@@ -38,11 +34,6 @@ const VIEWPORT = { width: 1400, height: 950 };
 // a real PDB entry (1A8O, X-ray) copied into the repo as a test fixture
 const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '1A8O.cif');
 
-let service: RunningService;
-let browser: Browser;
-let dir: string;
-const pageErrors: string[] = [];
-
 /** Adds a membership straight in the test's own database (the invitation flow has its own test). */
 async function addMember(dbName: string, email: string, manuscriptId: string, role: string) {
   const conn = await createConnection({ ...dbSettings(), database: dbName });
@@ -56,23 +47,11 @@ async function addMember(dbName: string, email: string, manuscriptId: string, ro
   }
 }
 
-beforeAll(async () => {
-  dir = mkdtempSync(join(tmpdir(), 'ff-fig-e2e-'));
-  service = await startService({ logName: 'figures' });
-  browser = await launchBrowser();
-}, 90_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await service?.stop();
-  rmSync(dir, { recursive: true, force: true });
-});
-
-afterEach(() => {
-  expect(pageErrors.splice(0)).toEqual([]);
-});
+const suite = browserSuite({ logName: 'figures' });
+const pageErrors = suite.pageErrors;
 
 test('figures, methods table and templates in the browser', async () => {
+  const { service, browser, dir } = suite;
   const token = await registerViaApi(service.url, OWNER);
   const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
     title: 'Fernhollow lectin domain',

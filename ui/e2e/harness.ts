@@ -2,7 +2,8 @@
 // ports with a throw-away database, and Debian's Chromium through playwright-core.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import { basename, join, resolve } from 'node:path';
 import { createConnection } from 'mysql2/promise';
@@ -270,4 +271,42 @@ export async function signInToDesk(page: Page, who: Person): Promise<void> {
   await page.goto('/sign-in');
   await fillSignIn(page, who);
   await page.waitForURL(/\/desk$/);
+}
+
+export interface BrowserSuite {
+  service: RunningService;
+  browser: Browser;
+  /** a throw-away directory for downloads, removed after the file's tests */
+  dir: string;
+  /** uncaught page errors (see watchPageErrors); each test must leave it empty */
+  pageErrors: string[];
+}
+
+export interface BrowserSuiteOptions extends ServiceOptions {
+  /** runs after the service is up and before the browser starts (e.g. to register an admin) */
+  afterStart?: (service: RunningService) => Promise<void>;
+}
+
+/**
+ * Registers the jest hooks every browser test file needs: the service and Chromium start before
+ * the file's tests and stop after them, and an uncaught exception in any page fails the test
+ * that caused it. The returned object is filled in once `beforeAll` has run.
+ */
+export function browserSuite(opts: BrowserSuiteOptions = {}): BrowserSuite {
+  const suite = { pageErrors: [] as string[] } as BrowserSuite;
+  beforeAll(async () => {
+    suite.dir = mkdtempSync(join(tmpdir(), 'ff-e2e-'));
+    suite.service = await startService(opts);
+    if (opts.afterStart) await opts.afterStart(suite.service);
+    suite.browser = await launchBrowser();
+  }, 90_000);
+  afterAll(async () => {
+    await suite.browser?.close();
+    await suite.service?.stop();
+    if (suite.dir) rmSync(suite.dir, { recursive: true, force: true });
+  });
+  afterEach(() => {
+    expect(suite.pageErrors.splice(0)).toEqual([]);
+  });
+  return suite;
 }

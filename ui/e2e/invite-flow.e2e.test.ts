@@ -2,18 +2,16 @@
 // Debian's Chromium: register → create a manuscript → invite → the coauthor opens the mailed link
 // in a second browser, registers, accepts → both see the membership; then role change, revoke,
 // leave; the Desk's sorting and archive; password reset through the mailed link.
-import type { Browser, BrowserContext, Page } from 'playwright-core';
+import type { BrowserContext, Page } from 'playwright-core';
 import {
   apiPost,
+  browserSuite,
   fillRegister,
   fillSignIn,
-  launchBrowser,
   registerViaApi,
   shot,
-  startService,
   watchPageErrors,
   type Person,
-  type RunningService,
 } from './harness';
 
 // invented people and lab (demo data rule: no real names)
@@ -57,10 +55,7 @@ const TITLE = 'Crystal structure of the <b>Saltmarsh</b> lid protease & its inhi
 const VIEWPORT = { width: 1280, height: 860 };
 const ACCESS_TTL_SEC = 5;
 
-let service: RunningService;
-let browser: Browser;
 let adminPage: Page | null = null;
-const pageErrors: string[] = [];
 
 async function newPage(ctx: BrowserContext): Promise<Page> {
   return watchPageErrors(await ctx.newPage(), pageErrors);
@@ -69,7 +64,10 @@ async function newPage(ctx: BrowserContext): Promise<Page> {
 /** The admin's page, signed in once and reused. */
 async function adminSession(): Promise<Page> {
   if (!adminPage) {
-    const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
+    const ctx = await suite.browser.newContext({
+      baseURL: suite.service.url,
+      viewport: VIEWPORT,
+    });
     adminPage = await newPage(ctx);
     await adminPage.goto('/sign-in?next=%2Fadmin%2Foutbox');
     await fillSignIn(adminPage, ADMIN);
@@ -99,25 +97,19 @@ async function linkFromOutbox(to: string, subject: RegExp, screenshot?: string):
   return href;
 }
 
-beforeAll(async () => {
+const suite = browserSuite({
   // access tokens expire within the test, so the pages also exercise the silent refresh
-  service = await startService({ accessTtlSec: ACCESS_TTL_SEC, logName: 'invite-flow' });
+  accessTtlSec: ACCESS_TTL_SEC,
+  logName: 'invite-flow',
   // the first account of a fresh install becomes its admin (the one who reads the Outbox)
-  await registerViaApi(service.url, ADMIN);
-  browser = await launchBrowser();
-}, 90_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await service?.stop();
+  afterStart: async (service) => {
+    await registerViaApi(service.url, ADMIN);
+  },
 });
-
-afterEach(() => {
-  // an uncaught exception in any page fails the test that caused it
-  expect(pageErrors.splice(0)).toEqual([]);
-});
+const pageErrors = suite.pageErrors;
 
 test('register, create, invite, accept in a second browser; then change role, revoke, leave', async () => {
+  const { service, browser } = suite;
   const ownerCtx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const owner = await newPage(ownerCtx);
 
@@ -268,6 +260,7 @@ test('register, create, invite, accept in a second browser; then change role, re
 }, 120_000);
 
 test('Desk sorts by column, renames, archives and restores', async () => {
+  const { service, browser } = suite;
   const token = await registerViaApi(service.url, SORTER);
   // created oldest → newest; titles chosen so text order and numeric order differ
   for (const title of ['Holo form 10', 'apo form at 2.1 Å', 'Holo form 9'])
@@ -323,6 +316,7 @@ test('Desk sorts by column, renames, archives and restores', async () => {
 }, 90_000);
 
 test('password reset through the mailed link', async () => {
+  const { service, browser } = suite;
   await registerViaApi(service.url, FORGETFUL);
   const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const page = await newPage(ctx);
@@ -369,6 +363,7 @@ test('password reset through the mailed link', async () => {
 }, 90_000);
 
 test('admin: the last admin cannot step down; promote someone; delete an account', async () => {
+  const { service, browser } = suite;
   await registerViaApi(service.url, PROMOTED);
   await registerViaApi(service.url, LEAVER);
   const page = await adminSession();

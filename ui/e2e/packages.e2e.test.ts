@@ -3,22 +3,17 @@
 // reviewer link → open it in a fresh browser context (no sign-in) → see a figure → download the
 // zip → `foldfolio verify` passes on the downloaded bytes; the owner's access log shows it.
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { Browser } from 'playwright-core';
 import {
   apiPost,
-  launchBrowser,
+  browserSuite,
   registerViaApi,
   ROOT,
   shot,
   signInToDesk,
-  startService,
   uploadModel,
   watchPageErrors,
   type Person,
-  type RunningService,
 } from './harness';
 
 // invented person and lab (demo data rule: no real names)
@@ -31,28 +26,11 @@ const VIEWPORT = { width: 1280, height: 900 };
 // a real PDB entry (1A8O, X-ray) copied into the repo as a test fixture
 const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '1A8O.cif');
 
-let service: RunningService;
-let browser: Browser;
-let dir: string;
-const pageErrors: string[] = [];
-
-beforeAll(async () => {
-  dir = mkdtempSync(join(tmpdir(), 'ff-pkg-e2e-'));
-  service = await startService();
-  browser = await launchBrowser();
-}, 90_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await service?.stop();
-  rmSync(dir, { recursive: true, force: true });
-});
-
-afterEach(() => {
-  expect(pageErrors.splice(0)).toEqual([]);
-});
+const suite = browserSuite();
+const pageErrors = suite.pageErrors;
 
 test('freeze → reviewer link in a fresh context → download → verify passes', async () => {
+  const { service, browser, dir } = suite;
   const token = await registerViaApi(service.url, OWNER);
   const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
     title: 'Saltmarsh capsid domain, refined',

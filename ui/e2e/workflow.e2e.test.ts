@@ -4,20 +4,17 @@
 // residue → comment with a mention → the mentioned member's e-mail arrives in the Outbox.
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { Browser } from 'playwright-core';
 import {
   apiGet,
   apiPost,
+  browserSuite,
   fillRegister,
-  launchBrowser,
   registerViaApi,
   ROOT,
   shot,
   signInViaApi,
-  startService,
   watchPageErrors,
   type Person,
-  type RunningService,
 } from './harness';
 
 // invented people and lab (demo data rule: no real names)
@@ -35,25 +32,11 @@ const VIEWPORT = { width: 1280, height: 900 };
 // a real PDB entry (2XHE, X-ray) copied into the repo as a test fixture
 const STRUCTURE = join(ROOT, 'shared', 'test', 'fixtures', '2XHE.cif');
 
-let service: RunningService;
-let browser: Browser;
-const pageErrors: string[] = [];
-
-beforeAll(async () => {
-  service = await startService();
-  browser = await launchBrowser();
-}, 90_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await service?.stop();
-});
-
-afterEach(() => {
-  expect(pageErrors.splice(0)).toEqual([]);
-});
+const suite = browserSuite();
+const pageErrors = suite.pageErrors;
 
 test('upload → progress → Quality summary → residue → comment with a mention → mail in the Outbox', async () => {
+  const { service, browser } = suite;
   const ctx = await browser.newContext({ baseURL: service.url, viewport: VIEWPORT });
   const page = watchPageErrors(await ctx.newPage(), pageErrors);
 
