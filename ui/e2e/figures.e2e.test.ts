@@ -6,14 +6,13 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createConnection } from 'mysql2/promise';
 import {
-  apiPost,
+  manuscriptWithUpload,
   browserSuite,
   dbSettings,
   registerViaApi,
   ROOT,
   shot,
   signInToDesk,
-  uploadModel,
   waitForAnalysis,
   watchPageErrors,
   type Person,
@@ -52,11 +51,12 @@ const pageErrors = suite.pageErrors;
 
 test('figures, methods table and templates in the browser', async () => {
   const { service, browser, dir } = suite;
-  const token = await registerViaApi(service.url, OWNER);
-  const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
-    title: 'Fernhollow lectin domain',
-  });
-  const up = await uploadModel(service.url, token, ms.id, STRUCTURE);
+  const { token, ms, up } = await manuscriptWithUpload(
+    service.url,
+    OWNER,
+    'Fernhollow lectin domain',
+    STRUCTURE,
+  );
   expect(up.status).toBe(201);
   const version = (await up.json()) as { id: string };
   await waitForAnalysis(service.url, token, ms.id, version.id);

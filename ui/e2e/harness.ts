@@ -310,3 +310,19 @@ export function browserSuite(opts: BrowserSuiteOptions = {}): BrowserSuite {
   });
   return suite;
 }
+
+/**
+ * Registers `who` through the API, creates a manuscript titled `title` and uploads `file` to it;
+ * the caller checks the upload's status.
+ */
+export async function manuscriptWithUpload(
+  url: string,
+  who: Person,
+  title: string,
+  file: string,
+): Promise<{ token: string; ms: { id: string }; up: Response }> {
+  const token = await registerViaApi(url, who);
+  const ms = await apiPost<{ id: string }>(url, token, '/api/manuscripts', { title });
+  const up = await uploadModel(url, token, ms.id, file);
+  return { token, ms, up };
+}

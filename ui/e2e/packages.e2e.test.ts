@@ -5,13 +5,11 @@
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import {
-  apiPost,
+  manuscriptWithUpload,
   browserSuite,
-  registerViaApi,
   ROOT,
   shot,
   signInToDesk,
-  uploadModel,
   watchPageErrors,
   type Person,
 } from './harness';
@@ -31,11 +29,12 @@ const pageErrors = suite.pageErrors;
 
 test('freeze → reviewer link in a fresh context → download → verify passes', async () => {
   const { service, browser, dir } = suite;
-  const token = await registerViaApi(service.url, OWNER);
-  const ms = await apiPost<{ id: string }>(service.url, token, '/api/manuscripts', {
-    title: 'Saltmarsh capsid domain, refined',
-  });
-  const up = await uploadModel(service.url, token, ms.id, STRUCTURE);
+  const { ms, up } = await manuscriptWithUpload(
+    service.url,
+    OWNER,
+    'Saltmarsh capsid domain, refined',
+    STRUCTURE,
+  );
   expect(up.status).toBe(201);
 
   // the owner freezes a package in the tab
