@@ -32,6 +32,13 @@ run_suite() {
     failed=$((failed + 1)); status=1
   fi
 }
+# lint is part of the suite: strict TypeScript rules, no Node/DOM imports or `any` in the engine
+if [ -z "$only" ]; then
+  log "linting"
+  if npx eslint . >"$OUT/eslint.txt" 2>&1; then passed=$((passed + 1)); else
+    cat "$OUT/eslint.txt"; failed=$((failed + 1)); status=1
+  fi
+fi
 run_suite shared "$@"
 run_suite service "$@"
 run_suite ui "$@"
