@@ -145,11 +145,50 @@ export function sniffPlainFormat(bytes: Uint8Array, filenameHint = ''): InputFor
   return null;
 }
 
+/**
+ * The last gzip sniff of each input buffer: a report reads the same upload twice (coordinates,
+ * then the experiment records), and inflating it once is enough. Keyed weakly on the caller's
+ * buffer, so an entry lives no longer than the upload; the limit, the inflater and the filename
+ * hint are compared too, so a call with other options decompresses afresh.
+ */
+const gzipSniffs = new WeakMap<
+  Uint8Array,
+  { max: number; gunzip: ReadOptions['gunzip']; hint: string; length: number; result: SniffResult }
+>();
+
 /** Decide the format and decompress. Throws StructureReadError on anything unrecognisable. */
 export function sniffStructure(
   input: Uint8Array,
   filenameHint = '',
   options: ReadOptions = {},
+): SniffResult {
+  const max = options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED_BYTES;
+  const cached = gzipSniffs.get(input);
+  if (
+    cached !== undefined &&
+    cached.max === max &&
+    cached.gunzip === options.gunzip &&
+    cached.hint === filenameHint &&
+    cached.length === input.length
+  )
+    return { ...cached.result };
+  const result = sniffUncached(input, filenameHint, options, max);
+  if (result.gzip)
+    gzipSniffs.set(input, {
+      max,
+      gunzip: options.gunzip,
+      hint: filenameHint,
+      length: input.length,
+      result,
+    });
+  return { ...result };
+}
+
+function sniffUncached(
+  input: Uint8Array,
+  filenameHint: string,
+  options: ReadOptions,
+  max: number,
 ): SniffResult {
   const label = filenameHint !== '' ? `"${filenameHint}"` : 'The file';
   if (input.length === 0) {
@@ -161,11 +200,7 @@ export function sniffStructure(
   let bytes = input;
   let gzip = false;
   if (isGzip(bytes)) {
-    bytes = gunzipLimited(
-      bytes,
-      options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED_BYTES,
-      options.gunzip,
-    );
+    bytes = gunzipLimited(bytes, max, options.gunzip);
     gzip = true;
     if (bytes.length === 0) {
       throw new StructureReadError(
