@@ -256,6 +256,40 @@ export function experimentRecord(stats: ExperimentalStats): Record<string, Exper
 
 /** Byte offset of the first coordinate record of a PDB file (headers always precede it). */
 function pdbHeaderEnd(b: Uint8Array): number {
+  // Byte scan for the usual all-ASCII header: the same answer as the text search below without
+  // decoding up to 4 MB per file (a tenth of the experiment step's time on the reference set).
+  const limit = Math.min(b.length, 1 << 22);
+  for (let i = 0; i < limit; i++) {
+    const c = b[i];
+    if (c >= 0x80) return pdbHeaderEndText(b); // non-ASCII: the decoder's byte count decides
+    if ((i === 0 || b[i - 1] === 10 || b[i - 1] === 13) && i + 6 <= limit && startsRecord(b, i))
+      return i;
+  }
+  return pdbHeaderEndText(b);
+}
+
+/** "ATOM  ", "HETATM" or "MODEL " at byte i */
+function startsRecord(b: Uint8Array, i: number): boolean {
+  const c0 = b[i];
+  if (c0 === 65)
+    // A T O M space space
+    return (
+      b[i + 1] === 84 && b[i + 2] === 79 && b[i + 3] === 77 && b[i + 4] === 32 && b[i + 5] === 32
+    );
+  if (c0 === 72)
+    // H E T A T M
+    return (
+      b[i + 1] === 69 && b[i + 2] === 84 && b[i + 3] === 65 && b[i + 4] === 84 && b[i + 5] === 77
+    );
+  if (c0 === 77)
+    // M O D E L space
+    return (
+      b[i + 1] === 79 && b[i + 2] === 68 && b[i + 3] === 69 && b[i + 4] === 76 && b[i + 5] === 32
+    );
+  return false;
+}
+
+function pdbHeaderEndText(b: Uint8Array): number {
   const text = new TextDecoder().decode(b.subarray(0, Math.min(b.length, 1 << 22)));
   const m = /^(ATOM {2}|HETATM|MODEL )/m.exec(text);
   return m ? new TextEncoder().encode(text.slice(0, m.index)).length : b.length;
