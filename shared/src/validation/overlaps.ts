@@ -18,6 +18,7 @@
  *
  * Pure TypeScript, no Node or DOM APIs.
  */
+import { STANDARD_AMINO_ACIDS as READER_STANDARD_AMINO_ACIDS } from '../io/residue-tables';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
 import type { ConformerTable } from '../model/conformers';
@@ -43,29 +44,11 @@ export const BONDI_RADII_A: Readonly<Record<number, number>> = {
   [El.P]: 1.8,
 };
 
-/** The 20 standard amino acids (common practice, no source). */
-const STANDARD_AMINO_ACIDS = new Set([
-  'ALA',
-  'ARG',
-  'ASN',
-  'ASP',
-  'CYS',
-  'GLN',
-  'GLU',
-  'GLY',
-  'HIS',
-  'ILE',
-  'LEU',
-  'LYS',
-  'MET',
-  'PHE',
-  'PRO',
-  'SER',
-  'THR',
-  'TRP',
-  'TYR',
-  'VAL',
-]);
+/** The 20 standard amino acids: the reader's list without SEC and PYL, whose side-chain links
+ * are treated like those of other non-standard residues. */
+const STANDARD_AMINO_ACIDS: ReadonlySet<string> = new Set(
+  [...READER_STANDARD_AMINO_ACIDS].filter((n) => n !== 'SEC' && n !== 'PYL'),
+);
 
 /** Covalent radii, Å (Cordero et al. 2008, Dalton Trans 2832; from memory), by El code. */
 const COVALENT_RADII_A: Readonly<Record<number, number>> = {
