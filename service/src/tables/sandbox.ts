@@ -6,6 +6,7 @@
  */
 import Handlebars from 'handlebars';
 import sanitizeHtml from 'sanitize-html';
+import { TABLE_HTML_TAGS } from '@foldfolio/shared';
 
 export class TemplateError extends Error {
   constructor(
@@ -22,27 +23,7 @@ const BUILTIN_BLOCKS = ['if', 'unless', 'each', 'with'];
 
 /** Tags and attributes a table template may produce. */
 export const ALLOWED_HTML: sanitizeHtml.IOptions = {
-  allowedTags: [
-    'table',
-    'caption',
-    'thead',
-    'tbody',
-    'tfoot',
-    'tr',
-    'th',
-    'td',
-    'p',
-    'ol',
-    'ul',
-    'li',
-    'sup',
-    'sub',
-    'em',
-    'strong',
-    'br',
-    'span',
-    'div',
-  ],
+  allowedTags: [...TABLE_HTML_TAGS],
   allowedAttributes: { '*': ['class', 'colspan', 'rowspan', 'scope'] },
   allowedSchemes: [],
   disallowedTagsMode: 'discard',

@@ -135,3 +135,4 @@ export interface HealthDto {
 
 // Outlier flags travel with the API contract so the UI can import the value without the engine.
 export { OUTLIER_FLAGS } from '../report/flags';
+export { TABLE_HTML_TAGS } from '../report/table-html';

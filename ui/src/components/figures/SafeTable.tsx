@@ -1,28 +1,9 @@
 // Shows a methods table rendered by the service as React elements built from an allow-list of
 // table tags (the service sanitises too; the UI never injects HTML).
 import { createElement, type ReactNode } from 'react';
+import { TABLE_HTML_TAGS } from '@foldfolio/shared/api';
 
-const TAGS = new Set([
-  'table',
-  'caption',
-  'thead',
-  'tbody',
-  'tfoot',
-  'tr',
-  'th',
-  'td',
-  'p',
-  'ol',
-  'ul',
-  'li',
-  'sup',
-  'sub',
-  'em',
-  'strong',
-  'br',
-  'span',
-  'div',
-]);
+const TAGS: ReadonlySet<string> = new Set(TABLE_HTML_TAGS);
 
 function convert(node: Node, key: number): ReactNode {
   if (node.nodeType === Node.TEXT_NODE) return node.textContent;
