@@ -17,6 +17,7 @@ import { buildReport } from '../report/build';
 import { readStructure } from '../io/read';
 import { tiledCif } from '../model/tile';
 import { nodeGunzip } from './node-gunzip';
+import { nodeSha256 } from './node-sha256';
 
 const ROOT = resolve(__dirname, '../../..');
 const PY = '/usr/bin/python3';
@@ -51,8 +52,12 @@ async function reportAll(
   const c0 = process.cpuUsage();
   let residues = 0;
   for (const f of files) {
-    // Node's zlib for gzip, as the service uses (the pure-JS inflater is the browser's fallback)
-    const r = await buildReport(readFileSync(f), { filename: f, gunzip: nodeGunzip });
+    // Node's zlib and SHA-256, as the service uses (the pure-JS ones are the browser's fallback)
+    const r = await buildReport(readFileSync(f), {
+      filename: f,
+      gunzip: nodeGunzip,
+      sha256: nodeSha256,
+    });
     for (const m of r.models) residues += m.residues.length;
   }
   const c = process.cpuUsage(c0);
@@ -73,7 +78,7 @@ async function childMain(file: string): Promise<void> {
   const bytes = readFileSync(file);
   const t0 = performance.now();
   const c0 = process.cpuUsage();
-  const r = await buildReport(bytes, { filename: file });
+  const r = await buildReport(bytes, { filename: file, gunzip: nodeGunzip, sha256: nodeSha256 });
   const seconds = (performance.now() - t0) / 1000;
   const c = process.cpuUsage(c0);
   const cpuSeconds = (c.user + c.system) / 1e6;
