@@ -252,9 +252,20 @@ export function analyzeOverlaps(
   const bondB = new IntList();
   const candA = new IntList();
   const candB = new IntList();
-  const maxContact = 2 * 1.9 - severeA;
   // only deposited H move (below), so only models with deposited H need the wider search
   const hMargin = all.depositedHydrogens > 0 ? H_MOVE_MARGIN_A : 0;
+  // Search radii from the elements present (most models have no Se: 3.2 Å instead of 3.4 Å for
+  // heavy pairs, a sixth fewer distance tests); never below a bond limit, so bonds are found.
+  let heavyBondi = BONDI_RADII_A[El.C];
+  let heavyCov = COVALENT_RADII_A[El.C];
+  const seen = new Uint8Array(8);
+  for (let k = 0; k < m; k++) seen[el[k]] = 1;
+  for (let e = 2; e < 8; e++)
+    if (seen[e] === 1) {
+      heavyBondi = Math.max(heavyBondi, BONDI_RADII_A[e]);
+      heavyCov = Math.max(heavyCov, COVALENT_RADII_A[e]);
+    }
+  const maxContact = Math.max(2 * heavyBondi - severeA, 2 * heavyCov + BOND_TOLERANCE_A);
   // 8 × 8 tables by element code: squared bond limit and squared severe-contact distance.
   const bondLim2 = new Float64Array(64);
   const contact2 = new Float64Array(64);
@@ -315,10 +326,28 @@ export function analyzeOverlaps(
   // visiting order, so the same bond lists): here the call to `visit` has one target and V8
   // inlines it, where the shared walks call many modules' callbacks and cannot (about a third of
   // the overlap step's time on the reference set).
+  // Coordinates copied into each grid's cell order, so the distance tests read memory in order
+  // without going through the atom index (the index is looked up only for pairs within range).
+  const cellOrdered = (grid: CellGrid): [Float64Array, Float64Array, Float64Array] => {
+    const c = grid.cellAtoms;
+    const gx = new Float64Array(c.length);
+    const gy = new Float64Array(c.length);
+    const gz = new Float64Array(c.length);
+    for (let k = 0; k < c.length; k++) {
+      gx[k] = xs[c[k]];
+      gy[k] = ys[c[k]];
+      gz[k] = zs[c[k]];
+    }
+    return [gx, gy, gz];
+  };
   const pairsWithin = (grid: CellGrid, radiusA: number): void => {
     const { nx, ny, nz, cellStart, cellAtoms } = grid;
+    const [gx, gy, gz] = cellOrdered(grid);
     const r2 = radiusA * radiusA;
     const reach = Math.ceil(radiusA / grid.cellSizeA);
+    // The cells of one grid row (fixed y, z) hold consecutive atoms, so each neighbouring row is
+    // one run of atoms: [first atom of cell x − reach, last atom of cell x + reach]. In the own
+    // row only cells x .. x + reach are taken, starting after atom k (each pair once).
     for (let cz = 0; cz < nz; cz++) {
       for (let cy = 0; cy < ny; cy++) {
         for (let cx = 0; cx < nx; cx++) {
@@ -326,33 +355,32 @@ export function analyzeOverlaps(
           const s = cellStart[c];
           const e = cellStart[c + 1];
           if (s === e) continue;
+          const xLo = cx - reach < 0 ? 0 : cx - reach;
+          const xHi = cx + reach >= nx ? nx - 1 : cx + reach;
           for (let dz = 0; dz <= reach; dz++) {
             const oz = cz + dz;
             if (oz >= nz) break;
             for (let dy = dz === 0 ? 0 : -reach; dy <= reach; dy++) {
               const oy = cy + dy;
               if (oy < 0 || oy >= ny) continue;
-              for (let dx = dz === 0 && dy === 0 ? 0 : -reach; dx <= reach; dx++) {
-                const ox = cx + dx;
-                if (ox < 0 || ox >= nx) continue;
-                const o = (oz * ny + oy) * nx + ox;
-                const same = o === c;
-                const oe = cellStart[o + 1];
-                for (let k = s; k < e; k++) {
-                  const a = cellAtoms[k];
-                  const ax = xs[a];
-                  const ay = ys[a];
-                  const az = zs[a];
-                  for (let q = same ? k + 1 : cellStart[o]; q < oe; q++) {
+              const row = (oz * ny + oy) * nx;
+              const own = dz === 0 && dy === 0;
+              const qs = own ? -1 : cellStart[row + xLo];
+              const qe = cellStart[row + xHi + 1];
+              for (let k = s; k < e; k++) {
+                const ax = gx[k];
+                const ay = gy[k];
+                const az = gz[k];
+                for (let q = own ? k + 1 : qs; q < qe; q++) {
+                  const ddx = gx[q] - ax;
+                  const ddy = gy[q] - ay;
+                  const ddz = gz[q] - az;
+                  const d2 = ddx * ddx + ddy * ddy + ddz * ddz;
+                  if (d2 <= r2) {
+                    const a = cellAtoms[k];
                     const b = cellAtoms[q];
-                    const ddx = xs[b] - ax;
-                    const ddy = ys[b] - ay;
-                    const ddz = zs[b] - az;
-                    const d2 = ddx * ddx + ddy * ddy + ddz * ddz;
-                    if (d2 <= r2) {
-                      if (a < b) visit(a, b, d2);
-                      else visit(b, a, d2);
-                    }
+                    if (a < b) visit(a, b, d2);
+                    else visit(b, a, d2);
                   }
                 }
               }
@@ -363,7 +391,12 @@ export function analyzeOverlaps(
     }
   };
   /** visit(h, a, d2) for every atom a of `grid` within radiusA of atom h, in cell order */
-  const around = (grid: CellGrid, h: number, radiusA: number): void => {
+  const around = (
+    grid: CellGrid,
+    [gx, gy, gz]: [Float64Array, Float64Array, Float64Array],
+    h: number,
+    radiusA: number,
+  ): void => {
     const { cellSizeA, nx, ny, nz, cellStart, cellAtoms } = grid;
     const px = xs[h];
     const py = ys[h];
@@ -375,31 +408,33 @@ export function analyzeOverlaps(
     const y1 = Math.min(ny - 1, Math.floor((py + radiusA - grid.minY) / cellSizeA));
     const z0 = Math.max(0, Math.floor((pz - radiusA - grid.minZ) / cellSizeA));
     const z1 = Math.min(nz - 1, Math.floor((pz + radiusA - grid.minZ) / cellSizeA));
+    if (x0 > x1 || y0 > y1 || z0 > z1) return; // beyond the grid's atoms by more than the radius
+    // cells x0..x1 of a row hold consecutive atoms: one run per row
     for (let cz = z0; cz <= z1; cz++) {
       for (let cy = y0; cy <= y1; cy++) {
         const row = (cz * ny + cy) * nx;
-        for (let cx = x0; cx <= x1; cx++) {
-          const c = row + cx;
-          for (let k = cellStart[c], e = cellStart[c + 1]; k < e; k++) {
-            const a = cellAtoms[k];
-            const dx = xs[a] - px;
-            const dy = ys[a] - py;
-            const dz = zs[a] - pz;
-            const d2 = dx * dx + dy * dy + dz * dz;
-            if (d2 <= r2) visit(h, a, d2);
-          }
+        for (let k = cellStart[row + x0], e = cellStart[row + x1 + 1]; k < e; k++) {
+          const dx = gx[k] - px;
+          const dy = gy[k] - py;
+          const dz = gz[k] - pz;
+          const d2 = dx * dx + dy * dy + dz * dz;
+          if (d2 <= r2) visit(h, cellAtoms[k], d2);
         }
       }
     }
   };
   const heavyGrid = buildCellGrid(xs, ys, zs, { subset: heavyIdx, cellSizeA: maxContact });
   pairsWithin(heavyGrid, maxContact);
-  const hHeavyCut = BONDI_RADII_A[El.H] + BONDI_RADII_A[El.Se] - severeA + hMargin;
-  const hHCut = 2 * BONDI_RADII_A[El.H] - severeA + 2 * hMargin;
+  const hHeavyCut = Math.max(
+    BONDI_RADII_A[El.H] + heavyBondi - severeA + hMargin,
+    COVALENT_RADII_A[El.H] + heavyCov + BOND_TOLERANCE_A,
+  );
+  const hHCut = Math.max(2 * BONDI_RADII_A[El.H] - severeA + 2 * hMargin, 0);
   if (hIdx.length > 0) {
     const hGrid = buildCellGrid(xs, ys, zs, { subset: hIdx, cellSizeA: hHeavyCut });
     pairsWithin(hGrid, hHCut);
-    for (let q = 0; q < hIdx.length; q++) around(heavyGrid, hIdx[q], hHeavyCut);
+    const heavyCoords = cellOrdered(heavyGrid);
+    for (let q = 0; q < hIdx.length; q++) around(heavyGrid, heavyCoords, hIdx[q], hHeavyCut);
   }
   for (let h = all.modelAtoms; h < n; h++) {
     const a = local[h];
