@@ -204,83 +204,157 @@ export interface AllAtomModel {
   convention: XhConvention;
 }
 
-type V = [number, number, number];
+/** Tetrahedral angle (109.5°, common practice) and half of the H–C–H angle of a methylene. */
+const TETRA_DEG = 109.5;
+const HALF_TETRA_RAD = ((TETRA_DEG / 2) * Math.PI) / 180;
+const COS_HALF_TETRA = Math.cos(HALF_TETRA_RAD);
+const SIN_HALF_TETRA = Math.sin(HALF_TETRA_RAD);
 
-function unit(a: V): V {
-  const l = Math.hypot(a[0], a[1], a[2]);
-  return [a[0] / l, a[1] / l, a[2] / l];
+/**
+ * Placement without temporary arrays (the H of a large model number in the millions): unit
+ * vectors go to the scratch `W`, positions to `out` (x, y, z per H). The arithmetic is the
+ * vector form's, term by term, so positions are bit-identical to it.
+ */
+const W = new Float64Array(12);
+
+/** W[o..o+2] = (x, y, z) / |(x, y, z)| */
+function unitTo(o: number, x: number, y: number, z: number): void {
+  const l = Math.hypot(x, y, z);
+  W[o] = x / l;
+  W[o + 1] = y / l;
+  W[o + 2] = z / l;
 }
 
-/** NeRF placement: D with |CD| = len, angle B–C–D, torsion A–B–C–D. */
-function place(a: V, b: V, c: V, len: number, angleDeg: number, torsionDeg: number): V {
-  const bc = unit([c[0] - b[0], c[1] - b[1], c[2] - b[2]]);
-  const ab: V = [b[0] - a[0], b[1] - a[1], b[2] - a[2]];
-  const n = unit([
-    ab[1] * bc[2] - ab[2] * bc[1],
-    ab[2] * bc[0] - ab[0] * bc[2],
-    ab[0] * bc[1] - ab[1] * bc[0],
-  ]);
-  const m: V = [
-    n[1] * bc[2] - n[2] * bc[1],
-    n[2] * bc[0] - n[0] * bc[2],
-    n[0] * bc[1] - n[1] * bc[0],
-  ];
+/**
+ * NeRF frame of the bond B→C with A as the third atom (Parsons et al. 2005, J Comput Chem
+ * 26:1063): W[0..2] = unit(C − B), W[3..5] = n = unit((B − A) × bc), W[6..8] = m = n × bc.
+ */
+function nerfFrame(
+  ax: number,
+  ay: number,
+  az: number,
+  bx: number,
+  by: number,
+  bz: number,
+  cx: number,
+  cy: number,
+  cz: number,
+): void {
+  unitTo(0, cx - bx, cy - by, cz - bz);
+  const b0 = W[0];
+  const b1 = W[1];
+  const b2 = W[2];
+  const ab0 = bx - ax;
+  const ab1 = by - ay;
+  const ab2 = bz - az;
+  unitTo(3, ab1 * b2 - ab2 * b1, ab2 * b0 - ab0 * b2, ab0 * b1 - ab1 * b0);
+  const n0 = W[3];
+  const n1 = W[4];
+  const n2 = W[5];
+  W[6] = n1 * b2 - n2 * b1;
+  W[7] = n2 * b0 - n0 * b2;
+  W[8] = n0 * b1 - n1 * b0;
+}
+
+/** out[o..o+2] = C + D in the frame of `nerfFrame`: |CD| = len, angle B–C–D, torsion A–B–C–D. */
+function placeInFrame(
+  out: Float64Array,
+  o: number,
+  cx: number,
+  cy: number,
+  cz: number,
+  len: number,
+  angleDeg: number,
+  torsionDeg: number,
+): void {
   const th = (angleDeg * Math.PI) / 180;
   const ph = (torsionDeg * Math.PI) / 180;
   const dx = -len * Math.cos(th);
   const dy = len * Math.sin(th) * Math.cos(ph);
   const dz = len * Math.sin(th) * Math.sin(ph);
-  return [
-    c[0] + dx * bc[0] + dy * m[0] + dz * n[0],
-    c[1] + dx * bc[1] + dy * m[1] + dz * n[1],
-    c[2] + dx * bc[2] + dy * m[2] + dz * n[2],
-  ];
+  out[o] = cx + dx * W[0] + dy * W[6] + dz * W[3];
+  out[o + 1] = cy + dx * W[1] + dy * W[7] + dz * W[4];
+  out[o + 2] = cz + dx * W[2] + dy * W[8] + dz * W[5];
 }
 
-/** Tetrahedral angle (109.5°, common practice) and half of the H–C–H angle of a methylene. */
-const TETRA_DEG = 109.5;
-
-/** Positions of a group's hydrogens from the parent X and its reference atoms. */
-export function groupPositions(type: GroupType, x: V, refs: V[], len: number): V[] {
-  const u = (r: V): V => unit([r[0] - x[0], r[1] - x[1], r[2] - x[2]]);
-  const along = (d: V): V => [x[0] + len * d[0], x[1] + len * d[1], x[2] + len * d[2]];
+/**
+ * Positions of a group's hydrogens from the parent X (atom `x`) and its reference atoms
+ * (`r0`, `r1`, `r2`; -1 where the group type needs fewer), written to `out` as x, y, z per H;
+ * returns the number of H.
+ */
+export function groupPositionsInto(
+  type: GroupType,
+  px: Float64Array,
+  py: Float64Array,
+  pz: Float64Array,
+  x: number,
+  r0: number,
+  r1: number,
+  r2: number,
+  len: number,
+  out: Float64Array,
+): number {
+  const x0 = px[x];
+  const x1 = py[x];
+  const x2 = pz[x];
   switch (type) {
     case 'tet1': {
-      const a = u(refs[0]);
-      const b = u(refs[1]);
-      const c = u(refs[2]);
-      return [along(unit([-(a[0] + b[0] + c[0]), -(a[1] + b[1] + c[1]), -(a[2] + b[2] + c[2])]))];
+      unitTo(0, px[r0] - x0, py[r0] - x1, pz[r0] - x2);
+      unitTo(3, px[r1] - x0, py[r1] - x1, pz[r1] - x2);
+      unitTo(6, px[r2] - x0, py[r2] - x1, pz[r2] - x2);
+      unitTo(9, -(W[0] + W[3] + W[6]), -(W[1] + W[4] + W[7]), -(W[2] + W[5] + W[8]));
+      out[0] = x0 + len * W[9];
+      out[1] = x1 + len * W[10];
+      out[2] = x2 + len * W[11];
+      return 1;
     }
     case 'tri1': {
-      const a = u(refs[0]);
-      const b = u(refs[1]);
-      return [along(unit([-(a[0] + b[0]), -(a[1] + b[1]), -(a[2] + b[2])]))];
+      unitTo(0, px[r0] - x0, py[r0] - x1, pz[r0] - x2);
+      unitTo(3, px[r1] - x0, py[r1] - x1, pz[r1] - x2);
+      unitTo(6, -(W[0] + W[3]), -(W[1] + W[4]), -(W[2] + W[5]));
+      out[0] = x0 + len * W[6];
+      out[1] = x1 + len * W[7];
+      out[2] = x2 + len * W[8];
+      return 1;
     }
     case 'tet2': {
-      const a = u(refs[0]);
-      const b = u(refs[1]);
-      const d = unit([-(a[0] + b[0]), -(a[1] + b[1]), -(a[2] + b[2])]);
-      const p = unit([
-        a[1] * b[2] - a[2] * b[1],
-        a[2] * b[0] - a[0] * b[2],
-        a[0] * b[1] - a[1] * b[0],
-      ]);
-      const half = ((TETRA_DEG / 2) * Math.PI) / 180;
-      const c = Math.cos(half);
-      const s = Math.sin(half);
-      return [
-        along([c * d[0] + s * p[0], c * d[1] + s * p[1], c * d[2] + s * p[2]]),
-        along([c * d[0] - s * p[0], c * d[1] - s * p[1], c * d[2] - s * p[2]]),
-      ];
+      unitTo(0, px[r0] - x0, py[r0] - x1, pz[r0] - x2);
+      unitTo(3, px[r1] - x0, py[r1] - x1, pz[r1] - x2);
+      const a0 = W[0];
+      const a1 = W[1];
+      const a2 = W[2];
+      const b0 = W[3];
+      const b1 = W[4];
+      const b2 = W[5];
+      unitTo(6, -(a0 + b0), -(a1 + b1), -(a2 + b2));
+      unitTo(9, a1 * b2 - a2 * b1, a2 * b0 - a0 * b2, a0 * b1 - a1 * b0);
+      const c = COS_HALF_TETRA;
+      const s = SIN_HALF_TETRA;
+      out[0] = x0 + len * (c * W[6] + s * W[9]);
+      out[1] = x1 + len * (c * W[7] + s * W[10]);
+      out[2] = x2 + len * (c * W[8] + s * W[11]);
+      out[3] = x0 + len * (c * W[6] - s * W[9]);
+      out[4] = x1 + len * (c * W[7] - s * W[10]);
+      out[5] = x2 + len * (c * W[8] - s * W[11]);
+      return 2;
     }
     case 'methyl':
       // staggered: torsion Z–Y–X–H at 180°, +60°, −60°
-      return [180, 60, -60].map((t) => place(refs[1], refs[0], x, len, TETRA_DEG, t));
+      nerfFrame(px[r1], py[r1], pz[r1], px[r0], py[r0], pz[r0], x0, x1, x2);
+      placeInFrame(out, 0, x0, x1, x2, len, TETRA_DEG, 180);
+      placeInFrame(out, 3, x0, x1, x2, len, TETRA_DEG, 60);
+      placeInFrame(out, 6, x0, x1, x2, len, TETRA_DEG, -60);
+      return 3;
     case 'hydroxyl':
-      return [place(refs[1], refs[0], x, len, TETRA_DEG, 180)];
+      nerfFrame(px[r1], py[r1], pz[r1], px[r0], py[r0], pz[r0], x0, x1, x2);
+      placeInFrame(out, 0, x0, x1, x2, len, TETRA_DEG, 180);
+      return 1;
     case 'planar2':
       // sp2 NH2 in the plane of Y and Z: one H cis, one trans to Z (120° angles)
-      return [place(refs[1], refs[0], x, len, 120, 0), place(refs[1], refs[0], x, len, 120, 180)];
+      nerfFrame(px[r1], py[r1], pz[r1], px[r0], py[r0], pz[r0], x0, x1, x2);
+      placeInFrame(out, 0, x0, x1, x2, len, 120, 0);
+      placeInFrame(out, 3, x0, x1, x2, len, 120, 180);
+      return 2;
   }
 }
 
@@ -334,7 +408,9 @@ class AddedColumns {
     this.rotatable = g(this.rotatable);
   }
   push(
-    p: V,
+    x: number,
+    y: number,
+    z: number,
     residue: number,
     altloc: number,
     name: number,
@@ -343,9 +419,9 @@ class AddedColumns {
   ): void {
     if (this.n === this.cap) this.grow();
     const i = this.n++;
-    this.x[i] = p[0];
-    this.y[i] = p[1];
-    this.z[i] = p[2];
+    this.x[i] = x;
+    this.y[i] = y;
+    this.z[i] = z;
     this.residue[i] = residue;
     this.altloc[i] = altloc;
     this.name[i] = name;
@@ -430,38 +506,57 @@ export function addRidingHydrogens(
   const ax = atoms.x;
   const ay = atoms.y;
   const az = atoms.z;
-  const pos = (i: number): V => [ax[i], ay[i], az[i]];
+  const ps = new Float64Array(9);
+  // conformer state read by `emit` (set at the top of each conformer)
+  let r = 0;
+  let firstConformer = true;
+  let confAlt = 0;
+  /** adds a group's H (references r0..r2, -1 where unused) to this conformer */
+  const emit = (
+    parentAtom: number,
+    hNames: readonly number[],
+    type: GroupType,
+    r0: number,
+    r1: number,
+    r2: number,
+  ): void => {
+    // An H whose parent and references are all shared atoms is added once (first conformer);
+    // otherwise it belongs to this conformer's altloc.
+    const shared =
+      atoms.altloc[parentAtom] === 0 &&
+      atoms.altloc[r0] === 0 &&
+      (r1 < 0 || atoms.altloc[r1] === 0) &&
+      (r2 < 0 || atoms.altloc[r2] === 0);
+    if (shared && !firstConformer) return;
+    const hAlt = shared ? 0 : confAlt;
+    const len = lengthOf(elOfStr[atoms.element[parentAtom]], type);
+    const count = groupPositionsInto(type, ax, ay, az, parentAtom, r0, r1, r2, len, ps);
+    const rot = isRotatableGroup(type);
+    for (let h = 0; h < count; h++)
+      out.push(ps[3 * h], ps[3 * h + 1], ps[3 * h + 2], r, hAlt, hNames[h], parentAtom, rot);
+  };
+  const nHs = [nH];
+  const nHAs = [nHA];
 
   for (let k = 0; k < t.count; k++) {
-    const r = t.residue[k];
+    r = t.residue[k];
     if (kind[r] !== ResidueKind.Protein || (hasH[r] && !options.ignoreDeposited)) continue;
-    const firstConformer = k === t.firstOfResidue[r];
-    const confAlt = t.altloc[k];
+    firstConformer = k === t.firstOfResidue[r];
+    confAlt = t.altloc[k];
     const res = S[parentName[r]];
-    const emit = (parentAtom: number, hNames: number[], type: GroupType, refIdx: number[]) => {
-      // An H whose parent and references are all shared atoms is added once (first conformer);
-      // otherwise it belongs to this conformer's altloc.
-      let shared = atoms.altloc[parentAtom] === 0;
-      for (const q of refIdx) if (atoms.altloc[q] !== 0) shared = false;
-      if (shared && !firstConformer) return;
-      const hAlt = shared ? 0 : confAlt;
-      const len = lengthOf(elOfStr[atoms.element[parentAtom]], type);
-      const ps = groupPositions(type, pos(parentAtom), refIdx.map(pos), len);
-      const rot = isRotatableGroup(type);
-      for (let h = 0; h < ps.length; h++) out.push(ps[h], r, hAlt, hNames[h], parentAtom, rot);
-    };
     const n = t.n[k];
     const ca = t.ca[k];
     const c = t.c[k];
     // Backbone amide H (not Pro): in the peptide plane, bisecting C(i−1)–N–CA outward.
     if (n >= 0 && ca >= 0 && res !== 'PRO') {
       const p = t.prev[k];
-      if (p >= 0 && t.c[p] >= 0) emit(n, [nH], 'tri1', [ca, t.c[p]]);
-      else if (t.prev[k] < 0 && t.breakBefore[k] === 0 && c >= 0) emit(n, nH123, 'methyl', [ca, c]);
+      if (p >= 0 && t.c[p] >= 0) emit(n, nHs, 'tri1', ca, t.c[p], -1);
+      else if (t.prev[k] < 0 && t.breakBefore[k] === 0 && c >= 0)
+        emit(n, nH123, 'methyl', ca, c, -1);
     }
     if (ca >= 0 && n >= 0 && c >= 0) {
-      if (res === 'GLY') emit(ca, nHA23, 'tet2', [n, c]);
-      else if (t.cb[k] >= 0) emit(ca, [nHA], 'tet1', [n, c, t.cb[k]]);
+      if (res === 'GLY') emit(ca, nHA23, 'tet2', n, c, -1);
+      else if (t.cb[k] >= 0) emit(ca, nHAs, 'tet1', n, c, t.cb[k]);
     }
     const specs = specsFor(res);
     if (specs.length === 0) continue;
@@ -477,13 +572,12 @@ export function addRidingHydrogens(
     for (const [par, hNames, type, refs] of specs) {
       const pa = slot[par];
       if (pa < 0) continue;
-      const ri: number[] = [];
-      for (const rn of refs) {
-        const q = slot[rn];
-        if (q < 0) break;
-        ri.push(q);
-      }
-      if (ri.length === refs.length) emit(pa, hNames, type, ri);
+      // up to three references (tet1); -1 marks an unused slot
+      const q0 = slot[refs[0]];
+      const q1 = refs.length > 1 ? slot[refs[1]] : -1;
+      const q2 = refs.length > 2 ? slot[refs[2]] : -1;
+      if (q0 < 0 || (refs.length > 1 && q1 < 0) || (refs.length > 2 && q2 < 0)) continue;
+      emit(pa, hNames, type, q0, q1, q2);
     }
     for (let i = atomStart[r]; i < atomEnd[r]; i++) slot[atoms.name[i]] = -1;
   }
