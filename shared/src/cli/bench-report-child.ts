@@ -1,6 +1,8 @@
 /**
  * Child process of the engine bench: builds the full report of one file and prints its time
  * and the process's peak RSS as JSON (a fresh process, so the peak belongs to this report).
+ *
+ *   node bench-report-child.js <file> [<warm-up file> | -] [<runs>]
  */
 import { readFileSync } from 'node:fs';
 import { buildReport } from '../report/build';
@@ -12,34 +14,46 @@ async function main(): Promise<void> {
   // optional warm-up file: a long-running worker has its code compiled already (JIT), so the
   // timed report should not pay for compilation
   const warm = process.argv[3];
-  if (warm !== undefined)
+  // runs of the timed report; the fastest is printed (min of repeated runs damps the noise of a
+  // shared machine; peak RSS is the whole process's, so it covers every run)
+  const runs = Math.max(1, Number(process.argv[4] ?? '1'));
+  if (warm !== undefined && warm !== '-')
     await buildReport(readFileSync(warm), {
       filename: warm,
       gunzip: nodeGunzip,
       sha256: nodeSha256,
     });
-  const t0 = performance.now();
-  const c0 = process.cpuUsage();
-  const timings: Record<string, number> = {};
-  const bytes = readFileSync(file);
-  const report = await buildReport(bytes, {
-    filename: file,
-    gunzip: nodeGunzip,
-    sha256: nodeSha256,
-    timings,
-  });
-  const json = JSON.stringify(report);
-  const seconds = (performance.now() - t0) / 1000;
-  const cu = process.cpuUsage(c0);
-  const cpuSeconds = (cu.user + cu.system) / 1e6;
-  let rows = 0;
-  for (const m of report.models) rows += m.residues.length;
+  let best: {
+    seconds: number;
+    cpuSeconds: number;
+    rows: number;
+    timings: Record<string, number>;
+  } | null = null;
+  for (let run = 0; run < runs; run++) {
+    const t0 = performance.now();
+    const c0 = process.cpuUsage();
+    const timings: Record<string, number> = {};
+    const bytes = readFileSync(file);
+    const report = await buildReport(bytes, {
+      filename: file,
+      gunzip: nodeGunzip,
+      sha256: nodeSha256,
+      timings,
+    });
+    JSON.stringify(report);
+    const seconds = (performance.now() - t0) / 1000;
+    const cu = process.cpuUsage(c0);
+    const cpuSeconds = (cu.user + cu.system) / 1e6;
+    let rows = 0;
+    for (const m of report.models) rows += m.residues.length;
+    if (best === null || cpuSeconds < best.cpuSeconds)
+      best = { seconds, cpuSeconds, rows, timings };
+  }
+  if (best === null) throw new Error('no run');
   // resourceUsage().maxRSS is in kilobytes (Node docs)
   const maxRssMB = process.resourceUsage().maxRSS / 1024;
-  for (const k of Object.keys(timings)) timings[k] = Math.round(timings[k]);
-  process.stdout.write(
-    JSON.stringify({ seconds, cpuSeconds, maxRssMB, rows, jsonBytes: json.length, timings }),
-  );
+  for (const k of Object.keys(best.timings)) best.timings[k] = Math.round(best.timings[k]);
+  process.stdout.write(JSON.stringify({ ...best, maxRssMB, runs }));
 }
 
 main().catch((e: unknown) => {

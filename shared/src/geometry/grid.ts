@@ -96,13 +96,16 @@ export function buildCellGrid(
     const cz = Math.floor((z[a] - minZ) / cellSizeA);
     const c = (cz * ny + cy) * nx + cx;
     cellOf[k] = c;
-    cellStart[c + 1]++;
+    cellStart[c]++;
   }
-  for (let c = 0; c < cells; c++) cellStart[c + 1] += cellStart[c];
-  const fill = cellStart.slice(0, cells);
+  // Counting sort without a second cell-sized array: after the running sum cellStart[c] is the
+  // end of cell c; filling from the last atom down moves it to the start of c and keeps the
+  // atoms of a cell in ascending order.
+  for (let c = 1; c < cells; c++) cellStart[c] += cellStart[c - 1];
+  cellStart[cells] = n;
   const cellAtoms = new Int32Array(n);
-  for (let k = 0; k < n; k++) {
-    cellAtoms[fill[cellOf[k]]++] = subset ? subset[k] : k;
+  for (let k = n - 1; k >= 0; k--) {
+    cellAtoms[--cellStart[cellOf[k]]] = subset ? subset[k] : k;
   }
   return { x, y, z, cellSizeA, minX, minY, minZ, nx, ny, nz, cellStart, cellAtoms, count: n };
 }
