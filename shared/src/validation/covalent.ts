@@ -106,6 +106,98 @@ function sideChainLookup(structure: Structure, lib: LoadedSideChainLibrary): Sid
 /** Largest number of atoms in a side-chain topology (Trp: 11). */
 const MAX_SLOTS = 16;
 
+/** Receives one measured term: conformer, kind, atom names, observed value, ideal and σ. */
+export type TermVisitor = (
+  k: number,
+  kind: 'bond' | 'angle',
+  names: readonly string[],
+  observed: number,
+  ideal: number,
+  sigma: number,
+) => void;
+
+/**
+ * Measures the side-chain terms of conformer k (a standard amino acid or a modified one by its
+ * parent) and hands each to `visit`. The topology's atoms are resolved once per conformer as
+ * findAtom does (the conformer's altloc first, else the shared atom; without altloc the first
+ * atom of the name) into `slots`; nothing is allocated per term.
+ */
+function measureSideChain(
+  model: Model,
+  t: ConformerTable,
+  k: number,
+  sc: SideChainLookup,
+  slots: Int32Array,
+  visit: TermVisitor,
+): void {
+  const r = t.residue[k];
+  const type = sc.typeOf[model.residues.parent[r]];
+  if (type < 0) return;
+  const atoms = model.atoms;
+  const atomName = atoms.name;
+  const atomAlt = atoms.altloc;
+  const want = sc.names[type];
+  const m = want.length;
+  const alt = t.altloc[k];
+  slots.fill(-1, 0, m);
+  for (let i = model.residues.atomStart[r]; i < model.residues.atomEnd[r]; i++) {
+    const a = atomAlt[i];
+    if (alt !== 0 && a !== 0 && a !== alt) continue;
+    const nm = atomName[i];
+    for (let s = 0; s < m; s++) {
+      if (want[s] !== nm) continue;
+      const prev = slots[s];
+      if (prev < 0 || (alt !== 0 && a === alt && atomAlt[prev] === 0)) slots[s] = i;
+      break;
+    }
+  }
+  const id = sc.ideals[type]!;
+  const topo = id.topology;
+  const bs = topo.bondSlots;
+  for (let b = 0; b < topo.bondKeys.length; b++) {
+    const i = slots[bs[2 * b]];
+    const j = slots[bs[2 * b + 1]];
+    if (i < 0 || j < 0 || !(id.bondSigma[b] > 0)) continue;
+    visit(k, 'bond', topo.bondNames[b], distanceA(atoms, i, j), id.bondIdeal[b], id.bondSigma[b]);
+  }
+  const as = topo.angleSlots;
+  for (let g = 0; g < topo.angleKeys.length; g++) {
+    const i = slots[as[3 * g]];
+    const j = slots[as[3 * g + 1]];
+    const l = slots[as[3 * g + 2]];
+    if (i < 0 || j < 0 || l < 0 || !(id.angleSigma[g] > 0)) continue;
+    visit(
+      k,
+      'angle',
+      topo.angleNames[g],
+      angleDeg(atoms, i, j, l),
+      id.angleIdeal[g],
+      id.angleSigma[g],
+    );
+  }
+}
+
+/**
+ * Every side-chain term of every protein conformer whose parent is a standard amino acid, as
+ * analyseCovalent measures them (same code), in conformer order (for checks and tools).
+ */
+export function forEachSideChainTerm(
+  structure: Structure,
+  model: Model,
+  t: ConformerTable,
+  visit: TermVisitor,
+  library: LoadedSideChainLibrary = defaultSideChainLibrary(),
+): void {
+  const sc = sideChainLookup(structure, library);
+  const slots = new Int32Array(MAX_SLOTS);
+  for (let k = 0; k < t.count; k++) {
+    const r = t.residue[k];
+    if (model.residues.kind[r] !== ResidueKind.Protein) continue;
+    if (!STANDARD_AMINO_ACIDS.has(parentName(structure, model, r))) continue;
+    measureSideChain(model, t, k, sc, slots, visit);
+  }
+}
+
 /** Measures every covalent term of every protein conformer of the model. */
 export function analyseCovalent(
   structure: Structure,
@@ -121,14 +213,7 @@ export function analyseCovalent(
   const meanAcc = new Map<readonly string[], { sum: number; count: number }>();
   const outliers: CovalentTerm[] = [];
 
-  const score = (
-    k: number,
-    kind: 'bond' | 'angle',
-    names: readonly string[],
-    observed: number,
-    ideal: number,
-    sigma: number,
-  ): void => {
+  const score: TermVisitor = (k, kind, names, observed, ideal, sigma) => {
     const d = observed - ideal;
     const z = d / sigma;
     const s = sums[kind];
@@ -170,9 +255,6 @@ export function analyseCovalent(
 
   const sc = sideChainLookup(structure, library);
   const slots = new Int32Array(MAX_SLOTS);
-  const { atomStart, atomEnd, parent: parentIdx } = model.residues;
-  const atomName = atoms.name;
-  const atomAlt = atoms.altloc;
 
   for (let k = 0; k < t.count; k++) {
     const r = t.residue[k];
@@ -204,57 +286,7 @@ export function analyseCovalent(
       if (n >= 0) add(k, 'angle', T_N_CA_CB, angleDeg(atoms, n, ca, cb), ang.nCaCb);
       if (c >= 0) add(k, 'angle', T_CB_CA_C, angleDeg(atoms, cb, ca, c), ang.cbCaC);
     }
-    const type = sc.typeOf[parentIdx[r]];
-    if (type >= 0) {
-      // Resolve the topology's atoms for this conformer once (as findAtom: the conformer's
-      // altloc first, else the shared atom; without altloc the first atom of the name).
-      const want = sc.names[type];
-      const m = want.length;
-      const alt = t.altloc[k];
-      slots.fill(-1, 0, m);
-      for (let i = atomStart[r]; i < atomEnd[r]; i++) {
-        const a = atomAlt[i];
-        if (alt !== 0 && a !== 0 && a !== alt) continue;
-        const nm = atomName[i];
-        for (let s = 0; s < m; s++) {
-          if (want[s] !== nm) continue;
-          const prev = slots[s];
-          if (prev < 0 || (alt !== 0 && a === alt && atomAlt[prev] === 0)) slots[s] = i;
-          break;
-        }
-      }
-      const id = sc.ideals[type]!;
-      const topo = id.topology;
-      const bs = topo.bondSlots;
-      for (let b = 0; b < topo.bondKeys.length; b++) {
-        const i = slots[bs[2 * b]];
-        const j = slots[bs[2 * b + 1]];
-        if (i < 0 || j < 0 || !(id.bondSigma[b] > 0)) continue;
-        score(
-          k,
-          'bond',
-          topo.bondNames[b],
-          distanceA(atoms, i, j),
-          id.bondIdeal[b],
-          id.bondSigma[b],
-        );
-      }
-      const as = topo.angleSlots;
-      for (let g = 0; g < topo.angleKeys.length; g++) {
-        const i = slots[as[3 * g]];
-        const j = slots[as[3 * g + 1]];
-        const l = slots[as[3 * g + 2]];
-        if (i < 0 || j < 0 || l < 0 || !(id.angleSigma[g] > 0)) continue;
-        score(
-          k,
-          'angle',
-          topo.angleNames[g],
-          angleDeg(atoms, i, j, l),
-          id.angleIdeal[g],
-          id.angleSigma[g],
-        );
-      }
-    }
+    measureSideChain(model, t, k, sc, slots, score);
     const q = t.next[k];
     if (q < 0 || c < 0) continue;
     const nn = t.n[q];
