@@ -80,6 +80,9 @@ export async function buildGeometryFromFolder(
   return { library, json: serializeGeometryLibrary(library) };
 }
 
+/** Paths on the command line are relative to where npm was invoked (INIT_CWD), else the cwd. */
+const fromCwd = (p: string): string => resolve(process.env.INIT_CWD ?? process.cwd(), p);
+
 async function main(argv: string[]): Promise<void> {
   let folder = DEFAULT_REFERENCE_FOLDER;
   let out = DEFAULT_GEOMETRY_OUT;
@@ -87,16 +90,16 @@ async function main(argv: string[]): Promise<void> {
   let id: string | undefined;
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
-    if (a === '--out') out = resolve(argv[++i]);
+    if (a === '--out') out = fromCwd(argv[++i]);
     else if (a === '--list')
-      names = readFileSync(resolve(argv[++i]), 'utf8')
+      names = readFileSync(fromCwd(argv[++i]), 'utf8')
         .split('\n')
         .map((l) => l.trim())
         .filter((l) => l && !l.startsWith('#'));
     else if (a === '--id') id = argv[++i];
     else if (a.startsWith('--'))
       throw new Error(`Unknown option ${a}; use [folder] [--list file] [--out file] [--id id].`);
-    else folder = resolve(a);
+    else folder = fromCwd(a);
   }
   const t0 = Date.now();
   const { library, json } = await buildGeometryFromFolder(folder, { names, id });
