@@ -52,6 +52,10 @@ export function formatSummary(report: Report, filename: string): string {
   );
   if (report.reference)
     lines.push(`reference ${report.reference.id} (sha256 ${report.reference.sha256})`);
+  if (report.geometryLibrary)
+    lines.push(
+      `side-chain geometry ${report.geometryLibrary.id} (sha256 ${report.geometryLibrary.sha256})`,
+    );
   for (const m of report.models) {
     const c = m.summary.composition;
     lines.push('');

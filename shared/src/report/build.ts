@@ -17,7 +17,11 @@ import type { TorsionTable } from '../validation/torsions';
 import { readStructure } from '../io/read';
 import type { ReadOptions } from '../io/read';
 import { StructureReadError } from '../io/errors';
-import { ensembleStep, GEOMETRY_MODEL_ANALYSES } from '../validation/geometry-analyses';
+import {
+  ensembleStep,
+  GEOMETRY_MODEL_ANALYSES,
+  geometryLibraryStep,
+} from '../validation/geometry-analyses';
 import { referenceStep, VERDICT_MODEL_ANALYSES } from '../validation/verdict-analyses';
 import { sha256Hex } from './sha256';
 import { experimentRecord, readExperimentFromBytes } from '../experiment/read';
@@ -102,7 +106,11 @@ export const MODEL_ANALYSES: ((ctx: ModelContext) => void)[] = [
 ];
 
 /** Report-wide analyses (after every model), in order. */
-export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [ensembleStep, referenceStep];
+export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [
+  ensembleStep,
+  referenceStep,
+  geometryLibraryStep,
+];
 
 function timed<T>(timings: Record<string, number> | undefined, key: string, f: () => T): T {
   if (timings === undefined) return f();
@@ -324,6 +332,7 @@ export function buildReportFromStructure(
     schema: REPORT_SCHEMA,
     engine: { version: ENGINE_VERSION },
     reference: null,
+    geometryLibrary: null,
     input: {
       sha256: timed(options.timings, 'sha256', () => (options.sha256 ?? sha256Hex)(bytes)),
       format: structure.format,

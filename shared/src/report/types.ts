@@ -180,6 +180,8 @@ export interface Report {
   schema: typeof REPORT_SCHEMA;
   engine: { version: string };
   reference?: { id: string; sha256: string } | null;
+  /** the side-chain ideal-geometry library the covalent statistics used (engine 0.2.0 on) */
+  geometryLibrary?: { id: string; sha256: string } | null;
   input: { sha256: string; format: InputFormat; gzip: boolean; sizeBytes: number };
   method?: 'x-ray' | 'electron-microscopy' | 'nmr' | 'neutron' | 'unknown';
   experiment?: Record<string, ExperimentalValue>;

@@ -1,13 +1,18 @@
 /**
- * Covalent geometry of protein residues against the Engh & Huber 2001 ideal values
- * (`ideal/engh-huber.ts`): backbone bonds and angles, CA–CB and the angles at CA involving CB,
- * and the peptide bond C(i)–N(i+1) with the angles across it. RMSD, RMS-Z and the terms beyond
- * 4σ (common practice, no source) are reported per model.
+ * Covalent geometry of protein residues. Backbone: bonds and angles, CA–CB and the angles at CA
+ * involving CB, and the peptide bond C(i)–N(i+1) with the angles across it, against the Engh &
+ * Huber 2001 ideal values (`ideal/engh-huber.ts`). Side chains: every bond and bond angle beyond
+ * CA–CB (from CA–CB–XG outward, ring angles, Pro CD–N and CD–N–CA; terms in
+ * `ideal/sidechain-topology.ts`) against our own library built by Engh & Huber's method
+ * (`ideal/sidechain-library.ts`, `reference/data/sidechain-geometry.json`). Both enter the same
+ * RMSD, RMS-Z and the terms beyond 4σ (common practice, no source), reported per model.
  *
  * Only residues whose parent is a standard amino acid are measured (modified residues through
- * their parent, e.g. MSE as MET); other components are skipped. Every conformer is measured (altlocs: a residue is an outlier if any conformer is); a term
- * shared by two conformers is counted once per conformer. Terms across a chain break
- * (C(i)–N(i+1) > 2.0 Å, see model/conformers.ts) are not measured.
+ * their parent, e.g. MSE as MET; side-chain atoms whose names differ from the parent's, like
+ * MSE SE, are not measured); other components are skipped. Every conformer is measured
+ * (altlocs: a residue is an outlier if any conformer is); a term shared by two conformers is
+ * counted once per conformer. Terms across a chain break (C(i)–N(i+1) > 2.0 Å, see
+ * model/conformers.ts) are not measured.
  */
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
@@ -25,6 +30,8 @@ import {
   residueClass,
 } from './ideal/engh-huber';
 import type { IdealValue } from './ideal/engh-huber';
+import { defaultSideChainLibrary, type LoadedSideChainLibrary } from './ideal/sidechain-library';
+import { stringIndex } from '../model/conformers';
 import { angleDeg, distanceA } from '../geometry/vec';
 import { torsionDeg } from '../geometry/torsion';
 
@@ -73,11 +80,130 @@ const T_CA_C_N = ['CA', 'C', 'N+'] as const;
 const T_O_C_N = ['O', 'C', 'N+'] as const;
 const T_C_N_CA = ['C', 'N+', 'CA+'] as const;
 
+/** Per-call lookup of the side-chain terms: residue types by parent string index. */
+interface SideChainLookup {
+  /** parent string index → residue type number, -1 for none */
+  typeOf: Int32Array;
+  /** per type: atom-name string indices of its topology slots (-1 when absent from the file) */
+  names: Int32Array[];
+  ideals: ReturnType<LoadedSideChainLibrary['residues']['get']>[];
+}
+
+function sideChainLookup(structure: Structure, lib: LoadedSideChainLibrary): SideChainLookup {
+  const typeOf = new Int32Array(structure.strings.length).fill(-1);
+  const names: Int32Array[] = [];
+  const ideals: SideChainLookup['ideals'] = [];
+  for (const [res, ideal] of lib.residues) {
+    const si = stringIndex(structure, res);
+    if (si < 0) continue;
+    typeOf[si] = names.length;
+    names.push(Int32Array.from(ideal.topology.atoms, (a) => stringIndex(structure, a)));
+    ideals.push(ideal);
+  }
+  return { typeOf, names, ideals };
+}
+
+/** Largest number of atoms in a side-chain topology (Trp: 11). */
+const MAX_SLOTS = 16;
+
+/** Receives one measured term: conformer, kind, atom names, observed value, ideal and σ. */
+export type TermVisitor = (
+  k: number,
+  kind: 'bond' | 'angle',
+  names: readonly string[],
+  observed: number,
+  ideal: number,
+  sigma: number,
+) => void;
+
+/**
+ * Measures the side-chain terms of conformer k (a standard amino acid or a modified one by its
+ * parent) and hands each to `visit`. The topology's atoms are resolved once per conformer as
+ * findAtom does (the conformer's altloc first, else the shared atom; without altloc the first
+ * atom of the name) into `slots`; nothing is allocated per term.
+ */
+function measureSideChain(
+  model: Model,
+  t: ConformerTable,
+  k: number,
+  sc: SideChainLookup,
+  slots: Int32Array,
+  visit: TermVisitor,
+): void {
+  const r = t.residue[k];
+  const type = sc.typeOf[model.residues.parent[r]];
+  if (type < 0) return;
+  const atoms = model.atoms;
+  const atomName = atoms.name;
+  const atomAlt = atoms.altloc;
+  const want = sc.names[type];
+  const m = want.length;
+  const alt = t.altloc[k];
+  slots.fill(-1, 0, m);
+  for (let i = model.residues.atomStart[r]; i < model.residues.atomEnd[r]; i++) {
+    const a = atomAlt[i];
+    if (alt !== 0 && a !== 0 && a !== alt) continue;
+    const nm = atomName[i];
+    for (let s = 0; s < m; s++) {
+      if (want[s] !== nm) continue;
+      const prev = slots[s];
+      if (prev < 0 || (alt !== 0 && a === alt && atomAlt[prev] === 0)) slots[s] = i;
+      break;
+    }
+  }
+  const id = sc.ideals[type]!;
+  const topo = id.topology;
+  const bs = topo.bondSlots;
+  for (let b = 0; b < topo.bondKeys.length; b++) {
+    const i = slots[bs[2 * b]];
+    const j = slots[bs[2 * b + 1]];
+    if (i < 0 || j < 0 || !(id.bondSigma[b] > 0)) continue;
+    visit(k, 'bond', topo.bondNames[b], distanceA(atoms, i, j), id.bondIdeal[b], id.bondSigma[b]);
+  }
+  const as = topo.angleSlots;
+  for (let g = 0; g < topo.angleKeys.length; g++) {
+    const i = slots[as[3 * g]];
+    const j = slots[as[3 * g + 1]];
+    const l = slots[as[3 * g + 2]];
+    if (i < 0 || j < 0 || l < 0 || !(id.angleSigma[g] > 0)) continue;
+    visit(
+      k,
+      'angle',
+      topo.angleNames[g],
+      angleDeg(atoms, i, j, l),
+      id.angleIdeal[g],
+      id.angleSigma[g],
+    );
+  }
+}
+
+/**
+ * Every side-chain term of every protein conformer whose parent is a standard amino acid, as
+ * analyseCovalent measures them (same code), in conformer order (for checks and tools).
+ */
+export function forEachSideChainTerm(
+  structure: Structure,
+  model: Model,
+  t: ConformerTable,
+  visit: TermVisitor,
+  library: LoadedSideChainLibrary = defaultSideChainLibrary(),
+): void {
+  const sc = sideChainLookup(structure, library);
+  const slots = new Int32Array(MAX_SLOTS);
+  for (let k = 0; k < t.count; k++) {
+    const r = t.residue[k];
+    if (model.residues.kind[r] !== ResidueKind.Protein) continue;
+    if (!STANDARD_AMINO_ACIDS.has(parentName(structure, model, r))) continue;
+    measureSideChain(model, t, k, sc, slots, visit);
+  }
+}
+
 /** Measures every covalent term of every protein conformer of the model. */
 export function analyseCovalent(
   structure: Structure,
   model: Model,
   t: ConformerTable,
+  library: LoadedSideChainLibrary = defaultSideChainLibrary(),
 ): CovalentResult {
   const atoms = model.atoms;
   const bondZMax = new Float64Array(t.count).fill(NaN);
@@ -87,15 +213,9 @@ export function analyseCovalent(
   const meanAcc = new Map<readonly string[], { sum: number; count: number }>();
   const outliers: CovalentTerm[] = [];
 
-  const add = (
-    k: number,
-    kind: 'bond' | 'angle',
-    names: readonly string[],
-    observed: number,
-    ref: IdealValue,
-  ): void => {
-    const d = observed - ref.ideal;
-    const z = d / ref.sigma;
+  const score: TermVisitor = (k, kind, names, observed, ideal, sigma) => {
+    const d = observed - ideal;
+    const z = d / sigma;
     const s = sums[kind];
     s[0]++;
     s[1] += d * d;
@@ -110,11 +230,20 @@ export function analyseCovalent(
         kind,
         atoms: [...names],
         observed,
-        ideal: ref.ideal,
-        sigma: ref.sigma,
+        ideal,
+        sigma,
         z,
       });
     }
+  };
+  const add = (
+    k: number,
+    kind: 'bond' | 'angle',
+    names: readonly string[],
+    observed: number,
+    ref: IdealValue,
+  ): void => {
+    score(k, kind, names, observed, ref.ideal, ref.sigma);
     if (kind === 'bond') {
       const m = meanAcc.get(names);
       if (m) {
@@ -123,6 +252,9 @@ export function analyseCovalent(
       } else meanAcc.set(names, { sum: observed, count: 1 });
     }
   };
+
+  const sc = sideChainLookup(structure, library);
+  const slots = new Int32Array(MAX_SLOTS);
 
   for (let k = 0; k < t.count; k++) {
     const r = t.residue[k];
@@ -154,6 +286,7 @@ export function analyseCovalent(
       if (n >= 0) add(k, 'angle', T_N_CA_CB, angleDeg(atoms, n, ca, cb), ang.nCaCb);
       if (c >= 0) add(k, 'angle', T_CB_CA_C, angleDeg(atoms, cb, ca, c), ang.cbCaC);
     }
+    measureSideChain(model, t, k, sc, slots, score);
     const q = t.next[k];
     if (q < 0 || c < 0) continue;
     const nn = t.n[q];

@@ -10,6 +10,7 @@ import { assignSecondaryStructure } from '../secondary/dssp';
 import { bFactorSummary, occupancySummary, sequenceGaps } from './composition';
 import { analyseChirality } from './chirality';
 import { analyseCovalent, covalentOutlierRows } from './covalent';
+import { defaultSideChainLibrary } from './ideal/sidechain-library';
 import { caRmsdToFirst, summarySpread } from './ensemble';
 import { analysePeptides } from './peptides';
 
@@ -162,4 +163,10 @@ export function ensembleStep(ctx: ReportContext): void {
       `${unmatched} model(s) share fewer than three CA atoms with model 1, so their CA RMSD to model 1 is left out; check that every model holds the same chains and residue numbers.`,
     );
   }
+}
+
+/** Name the side-chain ideal-geometry library the covalent statistics used. */
+export function geometryLibraryStep(ctx: ReportContext): void {
+  const lib = defaultSideChainLibrary();
+  ctx.report.geometryLibrary = { id: lib.id, sha256: lib.sha256 };
 }

@@ -7,7 +7,9 @@
  * sigmas are the table's (on the last digit there).
  *
  * Coverage: backbone bonds and angles, the peptide bond C(i)–N(i+1) and the angles across it,
- * CA–CB and the two angles at CA involving CB. Side chains beyond CB are not checked yet.
+ * CA–CB and the two angles at CA involving CB. Side-chain bonds and angles beyond CA–CB are
+ * checked against our own library built by Engh & Huber's method (`sidechain-library.ts`):
+ * the published side-chain tables (ITC F Tables 18.3.2.1/18.3.2.2) could only partly be read.
  *
  * Assignment of the peptide terms (inter-residue): a term whose atoms include the N of a Pro
  * takes the Proline column; otherwise a term that includes a Gly CA or the Gly carbonyl takes

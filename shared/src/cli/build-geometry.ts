@@ -1,0 +1,118 @@
+/**
+ * `npm run build-geometry -w shared -- [folder] [--list names.txt] [--out file.json] [--id id]`
+ *
+ * Builds the side-chain ideal-geometry library (`reference/sidechain-geometry.ts`) from a folder
+ * of coordinate files (default ../shared/data/reference-set, as build-reference). Node edge:
+ * reads files, hashes the input list, writes JSON. Deterministic: files in sorted order,
+ * canonical serialisation, so the same input gives byte-identical output.
+ */
+import { createHash } from 'node:crypto';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { readStructure } from '../io/read';
+import { readExperimentFromBytes } from '../experiment/read';
+import {
+  GEOMETRY_BUILD_PARAMETERS,
+  SIDECHAIN_GEOMETRY_ID,
+  buildGeometryLibrary,
+  collectGeometry,
+  emptyGeometryObservations,
+  serializeGeometryLibrary,
+  type SideChainGeometryLibrary,
+} from '../reference/sidechain-geometry';
+import { DEFAULT_REFERENCE_FOLDER, listStructureFiles } from './build-reference';
+import { nodeGunzip } from './node-gunzip';
+
+export const DEFAULT_GEOMETRY_OUT = resolve(
+  __dirname,
+  '../../src/reference/data/sidechain-geometry.json',
+);
+
+/** SHA-256 of the sorted `name<TAB>sha256(file)` list plus the build parameters. */
+export function geometryInputHash(folder: string, names: string[]): string {
+  const list = createHash('sha256');
+  for (const name of names.slice().sort()) {
+    const bytes = readFileSync(join(folder, name));
+    list.update(`${name}\t${createHash('sha256').update(bytes).digest('hex')}\n`);
+  }
+  list.update(JSON.stringify(GEOMETRY_BUILD_PARAMETERS));
+  return list.digest('hex');
+}
+
+/** The file's stated high-resolution limit (refinement, else reflections), or null. */
+function statedResolution(
+  values: Record<string, { value: string | number | null }>,
+): number | null {
+  for (const key of ['refineResolutionHighA', 'resolutionHighA']) {
+    const v = values[key]?.value;
+    const x = typeof v === 'number' ? v : typeof v === 'string' ? Number(v) : NaN;
+    if (Number.isFinite(x) && x > 0) return x;
+  }
+  return null;
+}
+
+export async function buildGeometryFromFolder(
+  folder: string,
+  options: { names?: string[]; id?: string } = {},
+): Promise<{ library: SideChainGeometryLibrary; json: string }> {
+  const names = (options.names ?? listStructureFiles(folder)).slice().sort();
+  if (names.length === 0)
+    throw new Error(
+      `No coordinate files (*.pdb, *.cif, optionally .gz) found in ${folder}; pass the reference-set folder as the first argument.`,
+    );
+  const obs = emptyGeometryObservations();
+  for (const name of names) {
+    const buf = readFileSync(join(folder, name));
+    const bytes = new Uint8Array(buf.buffer, buf.byteOffset, buf.byteLength);
+    try {
+      const s = await readStructure(bytes, name, { gunzip: nodeGunzip });
+      // the header records only (PDB header / mmCIF without _atom_site)
+      const exp = await readExperimentFromBytes(bytes, name, { gunzip: nodeGunzip });
+      collectGeometry(s, statedResolution(exp.values), obs);
+    } catch (e) {
+      throw new Error(
+        `Could not read ${name} (${(e as Error).message}); remove it from the input list or fix the file.`,
+      );
+    }
+  }
+  const sha256 = geometryInputHash(folder, names);
+  const library = buildGeometryLibrary(obs, options.id ?? SIDECHAIN_GEOMETRY_ID, sha256);
+  return { library, json: serializeGeometryLibrary(library) };
+}
+
+/** Paths on the command line are relative to where npm was invoked (INIT_CWD), else the cwd. */
+const fromCwd = (p: string): string => resolve(process.env.INIT_CWD ?? process.cwd(), p);
+
+async function main(argv: string[]): Promise<void> {
+  let folder = DEFAULT_REFERENCE_FOLDER;
+  let out = DEFAULT_GEOMETRY_OUT;
+  let names: string[] | undefined;
+  let id: string | undefined;
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i];
+    if (a === '--out') out = fromCwd(argv[++i]);
+    else if (a === '--list')
+      names = readFileSync(fromCwd(argv[++i]), 'utf8')
+        .split('\n')
+        .map((l) => l.trim())
+        .filter((l) => l && !l.startsWith('#'));
+    else if (a === '--id') id = argv[++i];
+    else if (a.startsWith('--'))
+      throw new Error(`Unknown option ${a}; use [folder] [--list file] [--out file] [--id id].`);
+    else folder = fromCwd(a);
+  }
+  const t0 = Date.now();
+  const { library, json } = await buildGeometryFromFolder(folder, { names, id });
+  writeFileSync(out, json);
+  const i = library.inputs;
+  process.stdout.write(
+    `side-chain geometry ${library.id}: ${i.filesUsed} of ${i.files} files used (${i.filesWithoutResolution} state no resolution, ${i.filesAboveResolution} above ${GEOMETRY_BUILD_PARAMETERS.resolutionMaxA} Å), ${json.length} bytes → ${out} (${((Date.now() - t0) / 1000).toFixed(1)} s)\n`,
+  );
+}
+
+if (require.main === module) {
+  main(process.argv.slice(2)).catch((e: unknown) => {
+    process.stderr.write(`build-geometry: ${(e as Error).message}\n`);
+    process.exit(1);
+  });
+}
