@@ -191,6 +191,29 @@ test('a changed model: verify reports every file that depends on it', async () =
   expect(byPath.get('v1/report.json')!.detail).toMatch(/line\(s\) differ; first at line \d+/);
 }, 60000);
 
+test('a package made by another engine version: verify says so and marks the engine-made files', async () => {
+  const files = await readZip(first.zip);
+  const manifest = JSON.parse(files.get('manifest.json')!.toString('utf8')) as {
+    inputs: { key: string; kind: string; version: string }[];
+    files: { path: string; dependsOn: string[] }[];
+  };
+  const engine = manifest.inputs.find((i) => i.kind === 'engine')!;
+  const library = manifest.inputs.find((i) => i.kind === 'geometry-library')!;
+  expect(library.version).toBe(first.reports[0].geometryLibrary!.id);
+  engine.version = '0.0.9';
+  files.set('manifest.json', Buffer.from(JSON.stringify(manifest, null, 2) + '\n', 'utf8'));
+  const r = await verifyPackage(await writeZip(files));
+  expect(r.ok).toBe(false);
+  expect(r.inputNotes.join(' ')).toMatch(
+    /made with Foldfolio engine 0\.0\.9; this installation has \d+\.\d+\.\d+\. Files holding numbers the engine computed may differ/,
+  );
+  const byPath = new Map(r.files.map((f) => [f.path, f]));
+  expect(byPath.get('v1/report.json')?.changedInputs).toContain('engine');
+  // the model and the template copies hold nothing the engine computed
+  expect(manifest.files.find((f) => f.path === 'model/v1.cif')!.dependsOn).not.toContain('engine');
+  expect(byPath.get('model/v1.cif')?.changedInputs).toBeUndefined();
+}, 60000);
+
 test('a package without the model file cannot be recomputed until the model is supplied', async () => {
   const files = await readZip(first.zip);
   files.delete('model/v1.cif');

@@ -89,7 +89,15 @@ export interface ManifestFile {
 
 export interface ManifestInput {
   key: string;
-  kind: 'model' | 'figure-template' | 'table-template' | 'preset' | 'reference' | 'engine' | 'form';
+  kind:
+    | 'model'
+    | 'figure-template'
+    | 'table-template'
+    | 'preset'
+    | 'reference'
+    | 'geometry-library'
+    | 'engine'
+    | 'form';
   id: string;
   version: string;
   sha256: string;
@@ -322,8 +330,14 @@ function readme(
   L.push(`- Foldfolio engine ${ENGINE_VERSION}`);
   const ref = reports[0]?.report.reference;
   L.push(`- Reference data: ${ref ? `${ref.id} (sha256 ${ref.sha256})` : 'none'}`);
+  const lib = reports[0]?.report.geometryLibrary;
+  L.push(`- Side-chain ideal geometry: ${lib ? `${lib.id} (sha256 ${lib.sha256})` : 'none'}`);
   for (const i of manifest.inputs.filter(
-    (x) => x.kind !== 'model' && x.kind !== 'engine' && x.kind !== 'reference',
+    (x) =>
+      x.kind !== 'model' &&
+      x.kind !== 'engine' &&
+      x.kind !== 'reference' &&
+      x.kind !== 'geometry-library',
   ))
     L.push(`- ${i.kind} ${i.id} version ${i.version} (sha256 ${i.sha256})`);
   for (const i of manifest.inputs.filter((x) => x.kind === 'model'))
@@ -558,6 +572,15 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
       version: ref.id,
       sha256: ref.sha256,
     });
+  const lib = reports[0].report.geometryLibrary;
+  if (lib)
+    inputs.push({
+      key: 'geometry-library',
+      kind: 'geometry-library',
+      id: lib.id,
+      version: lib.id,
+      sha256: lib.sha256,
+    });
   // the templates used travel inside the package, so verify recomputes with exactly them
   const used = new Set(entries.flatMap((e) => e.dependsOn));
   const templateEntries: typeof entries = [];
@@ -596,8 +619,12 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
   if (used.has(`preset:${PACKAGE_PRESET}`)) inputs.push(presetInput());
   entries.push(...templateEntries);
   for (const e of entries)
-    if (e.kind !== 'model' && e.kind !== 'template' && e.kind !== 'form' && ref)
-      e.dependsOn.push('reference');
+    if (e.kind !== 'model' && e.kind !== 'template' && e.kind !== 'form') {
+      // everything else holds numbers the engine computed
+      e.dependsOn.push('engine');
+      if (ref) e.dependsOn.push('reference');
+      if (lib) e.dependsOn.push('geometry-library');
+    }
 
   const head: Omit<Manifest, 'files'> = {
     schema: PACKAGE_SCHEMA,

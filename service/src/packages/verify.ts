@@ -47,6 +47,12 @@ export class PackageVerifyError extends Error {
 
 const TEXT = /\.(json|csv|md|html|tex|svg|txt)$/;
 
+const INPUT_WORDS = {
+  engine: 'Foldfolio engine',
+  reference: 'reference data',
+  'geometry-library': 'side-chain geometry library',
+} as const;
+
 /** First difference between two files, in words. */
 export function describeDifference(path: string, expected: Buffer, actual: Buffer): string {
   if (TEXT.test(path)) {
@@ -229,6 +235,16 @@ export async function verifyPackage(
       templates: set,
       forms,
     });
+    // engine, reference data and side-chain library: recorded vs. this installation's
+    for (const kind of ['engine', 'reference', 'geometry-library'] as const) {
+      const was = manifest.inputs.find((x) => x.kind === kind);
+      const now = rebuilt.manifest.inputs.find((x) => x.kind === kind);
+      if (!was || (now && now.version === was.version && now.sha256 === was.sha256)) continue;
+      changed.add(was.key);
+      inputNotes.push(
+        `The package was made with ${INPUT_WORDS[kind]} ${was.version}${was.sha256 ? ` (sha256 ${was.sha256.slice(0, 12)}…)` : ''}; this installation has ${now ? `${now.version}${now.sha256 ? ` (sha256 ${now.sha256.slice(0, 12)}…)` : ''}` : 'none'}. Files holding numbers the engine computed may differ for that reason alone.`,
+      );
+    }
     const deps = new Map(manifest.files.map((f) => [f.path, f.dependsOn]));
     const all = new Set([...rebuilt.files.keys(), ...manifest.files.map((f) => f.path)]);
     for (const p of [...all].sort()) {
