@@ -59,8 +59,18 @@ export function computedValues(report: Report): TableValue[] {
       add('bLigand', 'Mean B, ligands (Å²)', g.mean, 'mean over ligand atoms');
     if (g.group === 'water') add('bWater', 'Mean B, water (Å²)', g.mean, 'mean over water atoms');
   }
-  add('bondRmsdA', 'Bond lengths RMSD (Å)', s.bonds.rmsd, 'vs Engh & Huber ideal values');
-  add('angleRmsdDeg', 'Bond angles RMSD (°)', s.angles.rmsd, 'vs Engh & Huber ideal values');
+  add(
+    'bondRmsdA',
+    'Bond lengths RMSD (Å)',
+    s.bonds.rmsd,
+    'backbone vs Engh & Huber 2001; side chains vs the Foldfolio side-chain library',
+  );
+  add(
+    'angleRmsdDeg',
+    'Bond angles RMSD (°)',
+    s.angles.rmsd,
+    'backbone vs Engh & Huber 2001; side chains vs the Foldfolio side-chain library',
+  );
   if (s.rama) {
     const o = s.rama.overall;
     add(
