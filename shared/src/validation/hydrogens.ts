@@ -368,13 +368,17 @@ function lengthFor(conv: XhConvention, parentEl: El, type: GroupType): number {
   return t.S;
 }
 
-/** Growable column store for the added hydrogens (no object per atom). */
-class AddedColumns {
+/**
+ * Growable column store of the all-atom set (no object per atom): the model's atoms first, then
+ * the added hydrogens, written in place, so the result needs no second copy.
+ */
+class AtomColumns {
   n = 0;
   cap: number;
   x: Float64Array;
   y: Float64Array;
   z: Float64Array;
+  element: Uint8Array;
   residue: Int32Array;
   altloc: Int32Array;
   name: Int32Array;
@@ -385,6 +389,7 @@ class AddedColumns {
     this.x = new Float64Array(this.cap);
     this.y = new Float64Array(this.cap);
     this.z = new Float64Array(this.cap);
+    this.element = new Uint8Array(this.cap);
     this.residue = new Int32Array(this.cap);
     this.altloc = new Int32Array(this.cap);
     this.name = new Int32Array(this.cap);
@@ -401,12 +406,14 @@ class AddedColumns {
     this.x = g(this.x);
     this.y = g(this.y);
     this.z = g(this.z);
+    this.element = g(this.element);
     this.residue = g(this.residue);
     this.altloc = g(this.altloc);
     this.name = g(this.name);
     this.parent = g(this.parent);
     this.rotatable = g(this.rotatable);
   }
+  /** appends an added hydrogen */
   push(
     x: number,
     y: number,
@@ -422,6 +429,7 @@ class AddedColumns {
     this.x[i] = x;
     this.y[i] = y;
     this.z[i] = z;
+    this.element[i] = El.H;
     this.residue[i] = residue;
     this.altloc[i] = altloc;
     this.name[i] = name;
@@ -502,7 +510,17 @@ export function addRidingHydrogens(
   for (const res of Object.keys(SIDE_CHAIN)) specsFor(res); // intern every name before sizing `slot`
   // slot[name] = atom index of the current conformer, -1 otherwise (reset after each conformer)
   const slot = new Int32Array(names.length).fill(-1);
-  const out = new AddedColumns(Math.ceil(m * 1.1));
+  // room for the model's atoms and about one added H per heavy atom (grows if needed)
+  const out = new AtomColumns(m + Math.ceil(m * 1.1));
+  out.x.set(atoms.x);
+  out.y.set(atoms.y);
+  out.z.set(atoms.z);
+  out.residue.set(atoms.residue);
+  out.altloc.set(atoms.altloc);
+  out.name.set(atoms.name);
+  for (let i = 0; i < m; i++) out.element[i] = elOfStr[atoms.element[i]];
+  out.parent.fill(-1, 0, m);
+  out.n = m;
   const ax = atoms.x;
   const ay = atoms.y;
   const az = atoms.z;
@@ -582,38 +600,21 @@ export function addRidingHydrogens(
     for (let i = atomStart[r]; i < atomEnd[r]; i++) slot[atoms.name[i]] = -1;
   }
 
-  const added = out.n;
-  const total = m + added;
-  const element = new Uint8Array(total);
-  for (let i = 0; i < m; i++) element[i] = elOfStr[atoms.element[i]];
-  element.fill(El.H, m);
-  const cat = <T extends Float64Array | Int32Array | Uint8Array>(
-    a: ArrayLike<number>,
-    b: T,
-    make: new (n: number) => T,
-  ): T => {
-    const o = new make(total);
-    o.set(a as unknown as T);
-    o.set(b.subarray(0, added) as T, m);
-    return o;
-  };
-  const parent = new Int32Array(total).fill(-1);
-  parent.set(out.parent.subarray(0, added), m);
-  const rotatable = new Uint8Array(total);
-  rotatable.set(out.rotatable.subarray(0, added), m);
+  const total = out.n;
+  const added = total - m;
   return {
     count: total,
     modelAtoms: m,
-    x: cat(atoms.x, out.x, Float64Array),
-    y: cat(atoms.y, out.y, Float64Array),
-    z: cat(atoms.z, out.z, Float64Array),
-    element,
-    residue: cat(atoms.residue, out.residue, Int32Array),
-    altloc: cat(atoms.altloc, out.altloc, Int32Array),
-    name: cat(atoms.name, out.name, Int32Array),
+    x: out.x.subarray(0, total),
+    y: out.y.subarray(0, total),
+    z: out.z.subarray(0, total),
+    element: out.element.subarray(0, total),
+    residue: out.residue.subarray(0, total),
+    altloc: out.altloc.subarray(0, total),
+    name: out.name.subarray(0, total),
     names,
-    parent,
-    rotatable,
+    parent: out.parent.subarray(0, total),
+    rotatable: out.rotatable.subarray(0, total),
     addedHydrogens: added,
     depositedHydrogens: deposited,
     convention,
