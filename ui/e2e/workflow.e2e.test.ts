@@ -96,6 +96,10 @@ test('upload → progress → Quality summary → residue → comment with a men
   await page.getByRole('tab', { name: 'Quality' }).click();
   await page.getByTestId('summary-cards').waitFor();
   await page.getByText('Validation supports, and does not replace').waitFor();
+  // which engine, reference and side-chain library made these numbers, for the methods section
+  expect(await page.getByTestId('provenance').textContent()).toMatch(
+    /^Computed with Foldfolio engine \d+\.\d+\.\d+; reference foldfolio-ref-\S+; side-chain ideal geometry foldfolio-sidechain-geometry-\d+\./,
+  );
   const torsions = (await page.getByTestId('card-torsions').textContent()) ?? '';
   expect(torsions).toMatch(/% favored/);
   await page.getByTestId('residue-table').locator('.bp6-table-cell').first().waitFor();

@@ -88,6 +88,14 @@ function VersionReport({
         These statistics are computed by Foldfolio from the uploaded coordinates. Validation
         supports, and does not replace, your expert judgement and the journal’s and the archive’s
         own requirements.
+        <div className="ff-muted" data-testid="provenance">
+          Computed with Foldfolio engine {report.data.engine.version}
+          {report.data.reference ? `; reference ${report.data.reference.id}` : ''}
+          {report.data.geometryLibrary
+            ? `; side-chain ideal geometry ${report.data.geometryLibrary.id}`
+            : ''}
+          . Quote these with the numbers.
+        </div>
       </Callout>
       <div className="ff-summary-grid" data-testid="summary-cards">
         {cards.map((c) => (
