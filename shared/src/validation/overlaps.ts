@@ -103,6 +103,24 @@ export interface OverlapOptions {
   severeA?: number;
 }
 
+/** Growable list of index pairs, stored interleaved (one call per pair on the hot path). */
+class PairList {
+  data = new Int32Array(2048);
+  /** number of pairs */
+  length = 0;
+  push(a: number, b: number): void {
+    let k = this.length * 2;
+    if (k === this.data.length) {
+      const d = new Int32Array(this.data.length * 2);
+      d.set(this.data);
+      this.data = d;
+    }
+    this.data[k++] = a;
+    this.data[k] = b;
+    this.length++;
+  }
+}
+
 /** Growable Int32 list. */
 class IntList {
   data = new Int32Array(1024);
@@ -248,10 +266,8 @@ export function analyzeOverlaps(
 
   // One pass over pairs within the largest severe-contact distance: record covalent bonds
   // (distance rule) and candidate overlaps (raw overlap ≥ the severe threshold).
-  const bondA = new IntList();
-  const bondB = new IntList();
-  const candA = new IntList();
-  const candB = new IntList();
+  const bonds = new PairList();
+  const cands = new PairList();
   // only deposited H move (below), so only models with deposited H need the wider search
   const hMargin = all.depositedHydrogens > 0 ? H_MOVE_MARGIN_A : 0;
   // Search radii from the elements present (most models have no Se: 3.2 Å instead of 3.4 Å for
@@ -304,14 +320,12 @@ export function analyzeOverlaps(
         }
       }
       if (bonded) {
-        bondA.push(i);
-        bondB.push(j);
+        bonds.push(i, j);
         return;
       }
     }
     if (d2 <= contact2[pe]) {
-      candA.push(i);
-      candB.push(j);
+      cands.push(i, j);
     }
   };
   // Heavy–heavy pairs within the largest heavy contact; pairs with H need much shorter cutoffs
@@ -440,22 +454,22 @@ export function analyzeOverlaps(
     const a = local[h];
     const b = local[all.parent[h]];
     if (a >= 0 && b >= 0) {
-      bondA.push(a);
-      bondB.push(b);
+      bonds.push(a, b);
     }
   }
   const deg = new Int32Array(m + 1);
-  for (let k = 0; k < bondA.length; k++) {
-    deg[bondA.data[k] + 1]++;
-    deg[bondB.data[k] + 1]++;
+  const bd = bonds.data;
+  for (let k = 0; k < bonds.length; k++) {
+    deg[bd[2 * k] + 1]++;
+    deg[bd[2 * k + 1] + 1]++;
   }
   for (let i = 0; i < m; i++) deg[i + 1] += deg[i];
   const adjStart = deg;
   const adj = new Int32Array(adjStart[m]);
   const fill = adjStart.slice(0, m);
-  for (let k = 0; k < bondA.length; k++) {
-    const a = bondA.data[k];
-    const b = bondB.data[k];
+  for (let k = 0; k < bonds.length; k++) {
+    const a = bd[2 * k];
+    const b = bd[2 * k + 1];
     adj[fill[a]++] = b;
     adj[fill[b]++] = a;
   }
@@ -507,9 +521,10 @@ export function analyzeOverlaps(
     (el[i] === El.O && el[j] === El.C) || (el[i] === El.C && el[j] === El.O);
 
   const severe: OverlapPair[] = [];
-  for (let c = 0; c < candA.length; c++) {
-    const i = candA.data[c];
-    const j = candB.data[c];
+  const cd = cands.data;
+  for (let c = 0; c < cands.length; c++) {
+    const i = cd[2 * c];
+    const j = cd[2 * c + 1];
     // A water next to a partially occupied atom (or a partially occupied water) is an
     // alternative site: of another water (often written without altloc ids, e.g. 1OLR HOH
     // 2140/2142, 0.7 Å apart) or of a side-chain conformer (1OLR HOH 2126, 1.3 Å from Lys 69
