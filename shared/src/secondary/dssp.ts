@@ -25,7 +25,7 @@
  * Residues: protein residues with N, CA, C and O (the first conformer of each); a chain break
  * (new chain, or C(i)–N(i+1) > 2.5 Å, the reference program's limit) ends every pattern.
  */
-import { buildCellGrid, forEachWithin } from '../geometry/grid';
+import { buildCellGrid } from '../geometry/grid';
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
@@ -194,11 +194,33 @@ export function assignSecondaryStructure(
   }
   const grid = buildCellGrid(xs, ys, zs, { cellSizeA: CA_CUTOFF_A });
   const near: number[] = [];
+  const { cellStart, cellAtoms, nx, ny, nz, cellSizeA } = grid;
+  const cut2 = CA_CUTOFF_A * CA_CUTOFF_A;
   for (let i = 0; i + 1 < n; i++) {
     near.length = 0;
-    forEachWithin(grid, xs[i], ys[i], zs[i], CA_CUTOFF_A, (j, d2) => {
-      if (j > i && d2 < CA_CUTOFF_A * CA_CUTOFF_A) near.push(j);
-    });
+    // CA atoms j > i closer than the cutoff: the cells around i, one run of atoms per grid row
+    // (the cells x0..x1 of a row hold consecutive atoms); inlined rather than a callback walk
+    const px = xs[i];
+    const py = ys[i];
+    const pz = zs[i];
+    const x0 = Math.max(0, Math.floor((px - CA_CUTOFF_A - grid.minX) / cellSizeA));
+    const x1 = Math.min(nx - 1, Math.floor((px + CA_CUTOFF_A - grid.minX) / cellSizeA));
+    const y0 = Math.max(0, Math.floor((py - CA_CUTOFF_A - grid.minY) / cellSizeA));
+    const y1 = Math.min(ny - 1, Math.floor((py + CA_CUTOFF_A - grid.minY) / cellSizeA));
+    const z0 = Math.max(0, Math.floor((pz - CA_CUTOFF_A - grid.minZ) / cellSizeA));
+    const z1 = Math.min(nz - 1, Math.floor((pz + CA_CUTOFF_A - grid.minZ) / cellSizeA));
+    for (let cz = z0; cz <= z1; cz++)
+      for (let cy = y0; cy <= y1; cy++) {
+        const row = (cz * ny + cy) * nx;
+        for (let q = cellStart[row + x0], e = cellStart[row + x1 + 1]; q < e; q++) {
+          const j = cellAtoms[q];
+          if (j <= i) continue;
+          const dx = xs[j] - px;
+          const dy = ys[j] - py;
+          const dz = zs[j] - pz;
+          if (dx * dx + dy * dy + dz * dz < cut2) near.push(j);
+        }
+      }
     near.sort((p, q) => p - q); // the reference program's evaluation order (ties keep the first)
     for (const j of near) {
       energy(i, j);
@@ -221,20 +243,23 @@ export function assignSecondaryStructure(
     if (acc0[d] >= 0 && e0[d] < MAX_HBOND_ENERGY) donorsOf[acc0[d]].push(d);
     if (acc1[d] >= 0 && e1[d] < MAX_HBOND_ENERGY) donorsOf[acc1[d]].push(d);
   }
-  const candidates = new Set<number>();
-  const addAround = (y: number): void => {
-    candidates.add(y - 1);
-    candidates.add(y);
-    candidates.add(y + 1);
+  // candidate partners j of residue i, ascending and without repeats (one reused array)
+  const js: number[] = [];
+  const addAround = (i: number, y: number): void => {
+    for (let j = y - 1; j <= y + 1; j++) if (j >= i + 3 && j + 1 < n) js.push(j);
   };
   for (let i = 1; i + 4 < n; i++) {
-    candidates.clear();
+    js.length = 0;
     for (let x = i - 1; x <= i + 1; x++) {
-      if (acc0[x] >= 0 && e0[x] < MAX_HBOND_ENERGY) addAround(acc0[x]);
-      if (acc1[x] >= 0 && e1[x] < MAX_HBOND_ENERGY) addAround(acc1[x]);
-      for (const d of donorsOf[x]) addAround(d);
+      if (acc0[x] >= 0 && e0[x] < MAX_HBOND_ENERGY) addAround(i, acc0[x]);
+      if (acc1[x] >= 0 && e1[x] < MAX_HBOND_ENERGY) addAround(i, acc1[x]);
+      for (const d of donorsOf[x]) addAround(i, d);
     }
-    const js = [...candidates].filter((j) => j >= i + 3 && j + 1 < n).sort((p, q) => p - q);
+    if (js.length === 0) continue;
+    js.sort((p, q) => p - q);
+    let u = 1;
+    for (let q = 1; q < js.length; q++) if (js[q] !== js[u - 1]) js[u++] = js[q];
+    js.length = u;
     for (const j of js) {
       if (!noBreak(i - 1, i + 1) || !noBreak(j - 1, j + 1)) continue;
       const a = i - 1;
