@@ -9,7 +9,7 @@
  *    read + phi/psi/omega, ours vs gemmi; then the full report in a child process (time, peak
  *    RSS), and the same for a 100,000-atom model (linearity).
  */
-import { execFileSync, fork, type ChildProcess } from 'node:child_process';
+import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -18,6 +18,7 @@ import { buildConformers } from '../model/conformers';
 import { computeBackboneTorsions } from '../validation/torsions';
 import { nodeGunzip } from './node-gunzip';
 import { tiledCif } from '../model/tile';
+import { BatchWorker, serveBatches } from './bench-worker';
 
 const ROOT = resolve(__dirname, '../../..');
 const GEMMI_SCRIPT = join(ROOT, 'scripts/bench/gemmi_torsions.py');
@@ -75,41 +76,6 @@ async function ours(
 
 type OursResult = Awaited<ReturnType<typeof ours>>;
 
-/**
- * Our side runs in a forked worker that never starts a process itself. Starting gemmi from the
- * measuring process between batches cost it 1.5 s of extra system time per 1,100 files: every
- * process start forks the (large) Node heap, and each heap page written afterwards takes a
- * copy-on-write fault that is charged to us (measured here: 2.7 s CPU without, 4.4 s with a
- * Python start between batches).
- */
-class OursWorker {
-  private readonly child: ChildProcess;
-  private pending: ((r: OursResult) => void) | null = null;
-  constructor() {
-    this.child = fork(__filename, ['--ours-worker'], { execArgv: ['--max-old-space-size=4096'] });
-    this.child.on('message', (m) => {
-      const done = this.pending;
-      this.pending = null;
-      done?.(m as OursResult);
-    });
-  }
-  run(files: string[]): Promise<OursResult> {
-    return new Promise((res) => {
-      this.pending = res;
-      this.child.send(files);
-    });
-  }
-  stop(): void {
-    this.child.kill();
-  }
-}
-
-function oursWorkerMain(): void {
-  process.on('message', (files: string[]) => {
-    void ours(files).then((r) => process.send?.(r));
-  });
-}
-
 function fmt(s: number): string {
   return s.toFixed(2) + ' s';
 }
@@ -152,7 +118,8 @@ async function main(): Promise<void> {
   const bigAtoms = Number(opt('--atoms', '1000000'));
   const work = mkdtempSync(join(tmpdir(), 'foldfolio-bench-'));
   let failures = 0;
-  const worker = new OursWorker();
+  // our side in a worker that starts no processes (see bench-worker.ts)
+  const worker = new BatchWorker<OursResult>(__filename, ['--ours-worker']);
   try {
     // 1. reference set (--skip-reference-set: only the tiled models)
     const skipRef = args.includes('--skip-reference-set');
@@ -250,7 +217,7 @@ async function main(): Promise<void> {
   console.log(`engine bench: ${failures === 0 ? 'all bars met' : `${failures} bar(s) missed`}`);
 }
 
-if (process.argv[2] === '--ours-worker') oursWorkerMain();
+if (process.argv[2] === '--ours-worker') serveBatches(ours);
 else
   main().catch((e: unknown) => {
     console.error(`engine bench failed: ${e instanceof Error ? e.stack : String(e)}`);
