@@ -105,9 +105,13 @@ export interface OverlapOptions {
 
 /** Growable list of index pairs, stored interleaved (one call per pair on the hot path). */
 class PairList {
-  data = new Int32Array(2048);
+  data: Int32Array;
   /** number of pairs */
   length = 0;
+  /** `capacity` in pairs: the expected count (typed arrays this large are costly to regrow) */
+  constructor(capacity = 1024) {
+    this.data = new Int32Array(2 * Math.max(16, capacity));
+  }
   push(a: number, b: number): void {
     let k = this.length * 2;
     if (k === this.data.length) {
@@ -123,8 +127,12 @@ class PairList {
 
 /** Growable Int32 list. */
 class IntList {
-  data = new Int32Array(1024);
+  data: Int32Array;
   length = 0;
+  /** `capacity`: the expected size, so large lists are not grown (and copied) step by step */
+  constructor(capacity = 1024) {
+    this.data = new Int32Array(Math.max(16, capacity));
+  }
   push(v: number): void {
     if (this.length === this.data.length) {
       const d = new Int32Array(this.data.length * 2);
@@ -210,7 +218,7 @@ export function analyzeOverlaps(
   const n = all.count;
   const kind = model.residues.kind;
   // atoms taking part
-  const subset = new IntList();
+  const subset = new IntList(n);
   // occupancy of each all-atom entry (added H: their parent's)
   const occOf = (i: number): number =>
     model.atoms.occupancy[i < all.modelAtoms ? i : all.parent[i]];
@@ -266,8 +274,9 @@ export function analyzeOverlaps(
 
   // One pass over pairs within the largest severe-contact distance: record covalent bonds
   // (distance rule) and candidate overlaps (raw overlap ≥ the severe threshold).
-  const bonds = new PairList();
-  const cands = new PairList();
+  // expected sizes (reference set: about 1.1 bonds and 1.4 candidate pairs per atom)
+  const bonds = new PairList(Math.ceil(m * 1.2));
+  const cands = new PairList(Math.ceil(m * 1.5));
   // only deposited H move (below), so only models with deposited H need the wider search
   const hMargin = all.depositedHydrogens > 0 ? H_MOVE_MARGIN_A : 0;
   // Search radii from the elements present (most models have no Se: 3.2 Å instead of 3.4 Å for
@@ -331,8 +340,10 @@ export function analyzeOverlaps(
   // Heavy–heavy pairs within the largest heavy contact; pairs with H need much shorter cutoffs
   // (H···Se 1.2 + 1.9 − 0.4 = 2.7 Å, H···H 2.0 Å), so they are searched separately: about half
   // the distance tests of one search at the heavy cutoff.
-  const heavy = new IntList();
-  const hyd = new IntList();
+  let nHyd = 0;
+  for (let k = 0; k < m; k++) if (el[k] === El.H) nHyd++;
+  const heavy = new IntList(m - nHyd);
+  const hyd = new IntList(nHyd);
   for (let k = 0; k < m; k++) (el[k] === El.H ? hyd : heavy).push(k);
   const heavyIdx = heavy.data.subarray(0, heavy.length);
   const hIdx = hyd.data.subarray(0, hyd.length);
@@ -354,9 +365,12 @@ export function analyzeOverlaps(
     }
     return [gx, gy, gz];
   };
-  const pairsWithin = (grid: CellGrid, radiusA: number): void => {
+  const pairsWithin = (
+    grid: CellGrid,
+    [gx, gy, gz]: [Float64Array, Float64Array, Float64Array],
+    radiusA: number,
+  ): void => {
     const { nx, ny, nz, cellStart, cellAtoms } = grid;
-    const [gx, gy, gz] = cellOrdered(grid);
     const r2 = radiusA * radiusA;
     const reach = Math.ceil(radiusA / grid.cellSizeA);
     // The cells of one grid row (fixed y, z) hold consecutive atoms, so each neighbouring row is
@@ -438,7 +452,8 @@ export function analyzeOverlaps(
     }
   };
   const heavyGrid = buildCellGrid(xs, ys, zs, { subset: heavyIdx, cellSizeA: maxContact });
-  pairsWithin(heavyGrid, maxContact);
+  const heavyCoords = cellOrdered(heavyGrid);
+  pairsWithin(heavyGrid, heavyCoords, maxContact);
   const hHeavyCut = Math.max(
     BONDI_RADII_A[El.H] + heavyBondi - severeA + hMargin,
     COVALENT_RADII_A[El.H] + heavyCov + BOND_TOLERANCE_A,
@@ -446,8 +461,7 @@ export function analyzeOverlaps(
   const hHCut = Math.max(2 * BONDI_RADII_A[El.H] - severeA + 2 * hMargin, 0);
   if (hIdx.length > 0) {
     const hGrid = buildCellGrid(xs, ys, zs, { subset: hIdx, cellSizeA: hHeavyCut });
-    pairsWithin(hGrid, hHCut);
-    const heavyCoords = cellOrdered(heavyGrid);
+    pairsWithin(hGrid, cellOrdered(hGrid), hHCut);
     for (let q = 0; q < hIdx.length; q++) around(heavyGrid, heavyCoords, hIdx[q], hHeavyCut);
   }
   for (let h = all.modelAtoms; h < n; h++) {
