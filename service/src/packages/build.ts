@@ -563,24 +563,14 @@ export async function buildPackage(input: PackageInput): Promise<BuiltPackage> {
     previous = report;
     previousKey = key;
   }
+  // the versioned data the engine computed with: reference distributions, side-chain geometry
   const ref = reports[0].report.reference;
-  if (ref)
-    inputs.push({
-      key: 'reference',
-      kind: 'reference',
-      id: ref.id,
-      version: ref.id,
-      sha256: ref.sha256,
-    });
   const lib = reports[0].report.geometryLibrary;
-  if (lib)
-    inputs.push({
-      key: 'geometry-library',
-      kind: 'geometry-library',
-      id: lib.id,
-      version: lib.id,
-      sha256: lib.sha256,
-    });
+  for (const [kind, data] of [
+    ['reference', ref],
+    ['geometry-library', lib],
+  ] as const)
+    if (data) inputs.push({ key: kind, kind, id: data.id, version: data.id, sha256: data.sha256 });
   // the templates used travel inside the package, so verify recomputes with exactly them
   const used = new Set(entries.flatMap((e) => e.dependsOn));
   const templateEntries: typeof entries = [];

@@ -39,6 +39,9 @@ export interface CellGridOptions {
   subset?: ArrayLike<number>;
 }
 
+/** scratch cell box of forEachWithin (its visitors never re-enter it) */
+const BOX = new Float64Array(6);
+
 /** Cells beyond this many make the grid coarser, so sparse inputs never allocate huge arrays. */
 const MAX_CELLS = 1 << 24;
 
@@ -111,6 +114,32 @@ export function buildCellGrid(
 }
 
 /**
+ * The cells that can hold a point within `radiusA` of (px, py, pz): writes x0, x1, y0, y1, z0, z1
+ * (inclusive, clamped to the grid) into `out` (six numbers); returns false when the box misses
+ * the grid.
+ * The cells x0..x1 of one row (y, z) hold consecutive atoms: cellStart[row + x0] to
+ * cellStart[row + x1 + 1], row = (z·ny + y)·nx, so a walk can take one run of atoms per row.
+ */
+export function cellBox(
+  grid: CellGrid,
+  px: number,
+  py: number,
+  pz: number,
+  radiusA: number,
+  out: Float64Array,
+): boolean {
+  const { cellSizeA, nx, ny, nz } = grid;
+  out[0] = Math.max(0, Math.floor((px - radiusA - grid.minX) / cellSizeA));
+  out[1] = Math.min(nx - 1, Math.floor((px + radiusA - grid.minX) / cellSizeA));
+  out[2] = Math.max(0, Math.floor((py - radiusA - grid.minY) / cellSizeA));
+  out[3] = Math.min(ny - 1, Math.floor((py + radiusA - grid.minY) / cellSizeA));
+  out[4] = Math.max(0, Math.floor((pz - radiusA - grid.minZ) / cellSizeA));
+  out[5] = Math.min(nz - 1, Math.floor((pz + radiusA - grid.minZ) / cellSizeA));
+  // false also for NaN coordinates (NaN bounds compare false)
+  return out[0] <= out[1] && out[2] <= out[3] && out[4] <= out[5];
+}
+
+/**
  * Calls `visit(atom, distanceSquared)` for every bucketed atom within `radiusA` of the point
  * (inclusive), in cell order.
  */
@@ -122,27 +151,24 @@ export function forEachWithin(
   radiusA: number,
   visit: (atom: number, distanceSquaredA2: number) => void,
 ): void {
-  const { x, y, z, cellSizeA, nx, ny, nz, cellStart, cellAtoms } = grid;
+  const { x, y, z, nx, ny, cellStart, cellAtoms } = grid;
   const r2 = radiusA * radiusA;
-  const x0 = Math.max(0, Math.floor((px - radiusA - grid.minX) / cellSizeA));
-  const x1 = Math.min(nx - 1, Math.floor((px + radiusA - grid.minX) / cellSizeA));
-  const y0 = Math.max(0, Math.floor((py - radiusA - grid.minY) / cellSizeA));
-  const y1 = Math.min(ny - 1, Math.floor((py + radiusA - grid.minY) / cellSizeA));
-  const z0 = Math.max(0, Math.floor((pz - radiusA - grid.minZ) / cellSizeA));
-  const z1 = Math.min(nz - 1, Math.floor((pz + radiusA - grid.minZ) / cellSizeA));
-  for (let cz = z0; cz <= z1; cz++) {
-    for (let cy = y0; cy <= y1; cy++) {
+  const box = BOX;
+  if (!cellBox(grid, px, py, pz, radiusA, box)) return;
+  const x0 = box[0];
+  const x1 = box[1];
+  const y1 = box[3];
+  const z1 = box[5];
+  for (let cz = box[4]; cz <= z1; cz++) {
+    for (let cy = box[2]; cy <= y1; cy++) {
       const row = (cz * ny + cy) * nx;
-      for (let cx = x0; cx <= x1; cx++) {
-        const c = row + cx;
-        for (let k = cellStart[c], e = cellStart[c + 1]; k < e; k++) {
-          const a = cellAtoms[k];
-          const dx = x[a] - px;
-          const dy = y[a] - py;
-          const dz = z[a] - pz;
-          const d2 = dx * dx + dy * dy + dz * dz;
-          if (d2 <= r2) visit(a, d2);
-        }
+      for (let k = cellStart[row + x0], e = cellStart[row + x1 + 1]; k < e; k++) {
+        const a = cellAtoms[k];
+        const dx = x[a] - px;
+        const dy = y[a] - py;
+        const dz = z[a] - pz;
+        const d2 = dx * dx + dy * dy + dz * dz;
+        if (d2 <= r2) visit(a, d2);
       }
     }
   }

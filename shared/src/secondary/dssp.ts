@@ -25,7 +25,7 @@
  * Residues: protein residues with N, CA, C and O (the first conformer of each); a chain break
  * (new chain, or C(i)–N(i+1) > 2.5 Å, the reference program's limit) ends every pattern.
  */
-import { buildCellGrid } from '../geometry/grid';
+import { buildCellGrid, cellBox } from '../geometry/grid';
 import type { ConformerTable } from '../model/conformers';
 import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
@@ -194,7 +194,8 @@ export function assignSecondaryStructure(
   }
   const grid = buildCellGrid(xs, ys, zs, { cellSizeA: CA_CUTOFF_A });
   const near: number[] = [];
-  const { cellStart, cellAtoms, nx, ny, nz, cellSizeA } = grid;
+  const { cellStart, cellAtoms, nx, ny } = grid;
+  const box = new Float64Array(6);
   const cut2 = CA_CUTOFF_A * CA_CUTOFF_A;
   for (let i = 0; i + 1 < n; i++) {
     near.length = 0;
@@ -203,12 +204,13 @@ export function assignSecondaryStructure(
     const px = xs[i];
     const py = ys[i];
     const pz = zs[i];
-    const x0 = Math.max(0, Math.floor((px - CA_CUTOFF_A - grid.minX) / cellSizeA));
-    const x1 = Math.min(nx - 1, Math.floor((px + CA_CUTOFF_A - grid.minX) / cellSizeA));
-    const y0 = Math.max(0, Math.floor((py - CA_CUTOFF_A - grid.minY) / cellSizeA));
-    const y1 = Math.min(ny - 1, Math.floor((py + CA_CUTOFF_A - grid.minY) / cellSizeA));
-    const z0 = Math.max(0, Math.floor((pz - CA_CUTOFF_A - grid.minZ) / cellSizeA));
-    const z1 = Math.min(nz - 1, Math.floor((pz + CA_CUTOFF_A - grid.minZ) / cellSizeA));
+    if (!cellBox(grid, px, py, pz, CA_CUTOFF_A, box)) continue;
+    const x0 = box[0];
+    const x1 = box[1];
+    const y0 = box[2];
+    const y1 = box[3];
+    const z0 = box[4];
+    const z1 = box[5];
     for (let cz = z0; cz <= z1; cz++)
       for (let cy = y0; cy <= y1; cy++) {
         const row = (cz * ny + cy) * nx;

@@ -23,7 +23,7 @@ import type { Model, Structure } from '../model/types';
 import { ResidueKind } from '../model/types';
 import type { ConformerTable } from '../model/conformers';
 import type { Overlap } from '../report/types';
-import { buildCellGrid, type CellGrid } from '../geometry/grid';
+import { buildCellGrid, cellBox, type CellGrid } from '../geometry/grid';
 import {
   addRidingHydrogens,
   El,
@@ -418,6 +418,7 @@ export function analyzeOverlaps(
       }
     }
   };
+  const box = new Float64Array(6);
   /** visit(h, a, d2) for every atom a of `grid` within radiusA of atom h, in cell order */
   const around = (
     grid: CellGrid,
@@ -425,18 +426,18 @@ export function analyzeOverlaps(
     h: number,
     radiusA: number,
   ): void => {
-    const { cellSizeA, nx, ny, nz, cellStart, cellAtoms } = grid;
+    const { nx, ny, cellStart, cellAtoms } = grid;
     const px = xs[h];
     const py = ys[h];
     const pz = zs[h];
     const r2 = radiusA * radiusA;
-    const x0 = Math.max(0, Math.floor((px - radiusA - grid.minX) / cellSizeA));
-    const x1 = Math.min(nx - 1, Math.floor((px + radiusA - grid.minX) / cellSizeA));
-    const y0 = Math.max(0, Math.floor((py - radiusA - grid.minY) / cellSizeA));
-    const y1 = Math.min(ny - 1, Math.floor((py + radiusA - grid.minY) / cellSizeA));
-    const z0 = Math.max(0, Math.floor((pz - radiusA - grid.minZ) / cellSizeA));
-    const z1 = Math.min(nz - 1, Math.floor((pz + radiusA - grid.minZ) / cellSizeA));
-    if (x0 > x1 || y0 > y1 || z0 > z1) return; // beyond the grid's atoms by more than the radius
+    if (!cellBox(grid, px, py, pz, radiusA, box)) return;
+    const x0 = box[0];
+    const x1 = box[1];
+    const y0 = box[2];
+    const y1 = box[3];
+    const z0 = box[4];
+    const z1 = box[5];
     // cells x0..x1 of a row hold consecutive atoms: one run per row
     for (let cz = z0; cz <= z1; cz++) {
       for (let cy = y0; cy <= y1; cy++) {

@@ -19,6 +19,17 @@
  * atom order (`atoms` below: outward from CA, ring members by branch), e.g. Phe 'CG-CD-CE'.
  */
 
+/** The phenyl ring of Phe and Tyr from CB outward. */
+const PHENYL_BONDS: [string, string][] = [
+  ['CB', 'CG'],
+  ['CG', 'CD1'],
+  ['CG', 'CD2'],
+  ['CD1', 'CE1'],
+  ['CD2', 'CE2'],
+  ['CE1', 'CZ'],
+  ['CE2', 'CZ'],
+];
+
 /** Side-chain bonds per residue, outward from CB (PDB standard names). */
 const BONDS: Record<string, [string, string][]> = {
   ARG: [
@@ -81,15 +92,7 @@ const BONDS: Record<string, [string, string][]> = {
     ['CG', 'SD'],
     ['SD', 'CE'],
   ],
-  PHE: [
-    ['CB', 'CG'],
-    ['CG', 'CD1'],
-    ['CG', 'CD2'],
-    ['CD1', 'CE1'],
-    ['CD2', 'CE2'],
-    ['CE1', 'CZ'],
-    ['CE2', 'CZ'],
-  ],
+  PHE: PHENYL_BONDS,
   PRO: [
     ['CB', 'CG'],
     ['CG', 'CD'],
@@ -113,16 +116,7 @@ const BONDS: Record<string, [string, string][]> = {
     ['CZ2', 'CH2'],
     ['CZ3', 'CH2'],
   ],
-  TYR: [
-    ['CB', 'CG'],
-    ['CG', 'CD1'],
-    ['CG', 'CD2'],
-    ['CD1', 'CE1'],
-    ['CD2', 'CE2'],
-    ['CE1', 'CZ'],
-    ['CE2', 'CZ'],
-    ['CZ', 'OH'],
-  ],
+  TYR: [...PHENYL_BONDS, ['CZ', 'OH']],
   VAL: [
     ['CB', 'CG1'],
     ['CB', 'CG2'],
