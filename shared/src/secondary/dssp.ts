@@ -207,12 +207,8 @@ export function assignSecondaryStructure(
     if (!cellBox(grid, px, py, pz, CA_CUTOFF_A, box)) continue;
     const x0 = box[0];
     const x1 = box[1];
-    const y0 = box[2];
-    const y1 = box[3];
-    const z0 = box[4];
-    const z1 = box[5];
-    for (let cz = z0; cz <= z1; cz++)
-      for (let cy = y0; cy <= y1; cy++) {
+    for (let cz = box[4]; cz <= box[5]; cz++)
+      for (let cy = box[2]; cy <= box[3]; cy++) {
         const row = (cz * ny + cy) * nx;
         for (let q = cellStart[row + x0], e = cellStart[row + x1 + 1]; q < e; q++) {
           const j = cellAtoms[q];

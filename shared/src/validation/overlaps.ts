@@ -434,13 +434,9 @@ export function analyzeOverlaps(
     if (!cellBox(grid, px, py, pz, radiusA, box)) return;
     const x0 = box[0];
     const x1 = box[1];
-    const y0 = box[2];
-    const y1 = box[3];
-    const z0 = box[4];
-    const z1 = box[5];
     // cells x0..x1 of a row hold consecutive atoms: one run per row
-    for (let cz = z0; cz <= z1; cz++) {
-      for (let cy = y0; cy <= y1; cy++) {
+    for (let cz = box[4]; cz <= box[5]; cz++) {
+      for (let cy = box[2]; cy <= box[3]; cy++) {
         const row = (cz * ny + cy) * nx;
         for (let k = cellStart[row + x0], e = cellStart[row + x1 + 1]; k < e; k++) {
           const dx = gx[k] - px;
