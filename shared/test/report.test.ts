@@ -168,6 +168,52 @@ describe('foldfolio report (CLI)', () => {
   });
 });
 
+describe('geometry-only reports (--geometry-only)', () => {
+  it('leave out verdicts and overlaps, say so, and keep every geometry number of the full report', async () => {
+    const bytes = bytesOf('1A8O.cif');
+    const full = await buildReport(bytes, { filename: '1A8O.cif' });
+    const geo = await buildReport(bytes, { filename: '1A8O.cif', scope: 'geometry' });
+    const [f, g] = [full.models[0], geo.models[0]];
+    // left out, and listed with the reason
+    expect(g.summary.rama).toBeUndefined();
+    expect(g.summary.rotamers).toBeUndefined();
+    expect(g.summary.overlaps).toBeUndefined();
+    expect(g.overlaps).toBeUndefined();
+    expect(geo.reference).toBeNull();
+    expect(f.summary.rama?.overall.total).toBeGreaterThan(0);
+    for (const statistic of ['ramachandran', 'rotamers', 'overlaps'])
+      expect(g.summary.notComputed.find((n) => n.statistic === statistic)?.reason).toMatch(
+        /geometry-only report/,
+      );
+    // the geometry itself is the full report's, number for number
+    for (const key of [
+      'composition',
+      'bonds',
+      'angles',
+      'cisPeptides',
+      'twistedPeptides',
+      'dResidues',
+      'cbOutliers',
+      'bFactors',
+      'secondaryStructure',
+    ] as const)
+      expect(g.summary[key]).toEqual(f.summary[key]);
+    expect(g.residues.map((r) => [r.phi, r.psi, r.omega, r.chi, r.ss])).toEqual(
+      f.residues.map((r) => [r.phi, r.psi, r.omega, r.chi, r.ss]),
+    );
+    expect(g.residues.some((r) => r.rama !== undefined || r.rotamer !== undefined)).toBe(false);
+    expect(geo.geometryLibrary).toEqual(full.geometryLibrary);
+  });
+
+  it('the command prints the summary with the statistics it left out', async () => {
+    const { code, out } = await run([path.join(FIXTURES, '1A8O.cif'), '--geometry-only']);
+    expect(code).toBe(0);
+    expect(out).toMatch(/bonds: \d+, RMS-Z/);
+    expect(out).not.toMatch(/Ramachandran:/);
+    expect(out).toMatch(/not computed \(overlaps\): Not requested: this is a geometry-only report/);
+  });
+});
+
 describe('experimental statistics in the report', () => {
   // The method and the values come from the file's own records (_exptl.method, _reflns, _refine);
   // the experiment reader itself is checked against gemmi in experiment.test.ts.

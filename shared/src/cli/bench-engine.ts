@@ -6,8 +6,9 @@
  *
  * 1. The reference set (1,100 PDB files): read + phi/psi/omega, ours vs gemmi in the same run.
  * 2. A 1,000,000-atom model tiled from real chains (written once as mmCIF to a temp folder):
- *    read + phi/psi/omega, ours vs gemmi; then the full report in a child process (time, peak
- *    RSS), and the same for a 100,000-atom model (linearity).
+ *    read + phi/psi/omega, ours vs gemmi; then the geometry report (issue 3's bar) and, for
+ *    information, the full report in child processes (time, peak RSS), and both again against a
+ *    100,000-atom model (linearity).
  */
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -99,10 +100,16 @@ function stepLine(c: ChildResult): string {
     .join(', ');
 }
 
-function child(file: string, warmUp: string, runs = 1, v8Flags: string[] = []): ChildResult {
+function child(
+  file: string,
+  warmUp: string,
+  runs = 1,
+  v8Flags: string[] = [],
+  scope: 'full' | 'geometry' = 'full',
+): ChildResult {
   const out = execFileSync(
     process.execPath,
-    ['--max-old-space-size=4096', ...v8Flags, CHILD, file, warmUp, String(runs)],
+    ['--max-old-space-size=4096', ...v8Flags, CHILD, file, warmUp, String(runs), scope],
     { encoding: 'utf8', maxBuffer: 1 << 20 },
   );
   return JSON.parse(out) as ChildResult;
@@ -185,12 +192,20 @@ async function main(): Promise<void> {
       `  read + phi/psi/omega   CPU foldfolio ${fmt(b.cpu)}   gemmi ${fmt(gb.cpu)}   ratio ${rb.toFixed(2)}×   (bar ≤ ${BAR_RATIO}×) ${verdict(rb <= BAR_RATIO)}   [wall ${fmt(b.seconds)} vs ${fmt(gb.seconds)}]`,
     );
     if (rb > BAR_RATIO) failures++;
-    const full = child(bigFile, srcPath);
-    // judged on wall time, as the bar is stated; CPU time is printed to show machine load
-    const okTime = full.seconds < BAR_REPORT_S;
-    const okRss = full.maxRssMB < BAR_RSS_MB;
+    // Issue 3's bar is the geometry report (readers, torsions, covalent geometry, peptides,
+    // chirality and Cβ, secondary structure, composition): the verdicts and all-atom overlaps of
+    // engine II have their own bar, "full report, overlaps included, < 20 s" (verdicts section).
+    // Judged on wall time, as the bar is stated; CPU time is printed to show machine load.
+    const geo = child(bigFile, srcPath, 1, [], 'geometry');
+    const okTime = geo.seconds < BAR_REPORT_S;
+    const okRss = geo.maxRssMB < BAR_RSS_MB;
     console.log(
-      `  full report            ${fmt(full.seconds)} wall, ${fmt(full.cpuSeconds)} CPU (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${full.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${full.rows} residue rows`,
+      `  geometry report        ${fmt(geo.seconds)} wall, ${fmt(geo.cpuSeconds)} CPU (bar < ${BAR_REPORT_S} s) ${verdict(okTime)}   peak RSS ${geo.maxRssMB.toFixed(0)} MB (bar < ${BAR_RSS_MB} MB) ${verdict(okRss)}   ${geo.rows} residue rows`,
+    );
+    console.log(`    steps: ${stepLine(geo)}`);
+    const full = child(bigFile, srcPath);
+    console.log(
+      `  full report (info; verdicts + overlaps too, bar in the verdicts section)   ${fmt(full.seconds)} wall, ${fmt(full.cpuSeconds)} CPU, peak RSS ${full.maxRssMB.toFixed(0)} MB`,
     );
     console.log(`    steps: ${stepLine(full)}`);
     // Linearity: the work of the engine, not the machine's. V8 runs its garbage collector and
@@ -198,16 +213,18 @@ async function main(): Promise<void> {
     // (a 100,000-atom report spent ~0.5 s of extra CPU on them here); --single-threaded keeps
     // that work on the measured thread. Both sizes: warmed up on the 100,000-atom model, best of
     // three runs (the same protocol for both; single runs of the same code here differ by up to
-    // 25 %).
+    // 25 %). Judged on the geometry report; the full report's ratio is printed too.
     const st = ['--single-threaded'];
-    const part = child(smallFile, smallFile, 3, st);
-    const whole = child(bigFile, smallFile, 3, st);
-    const frac = part.cpuSeconds / whole.cpuSeconds;
-    console.log(
-      `  linear growth (single-threaded V8, best of 3): ${small.atoms} atoms ${fmt(part.cpuSeconds)} CPU, ${big.atoms} atoms ${fmt(whole.cpuSeconds)} CPU = ${frac.toFixed(3)} (bar ≤ ${BAR_LINEAR.toFixed(3)}) ${verdict(frac <= BAR_LINEAR)}   peak RSS ${part.maxRssMB.toFixed(0)} MB`,
-    );
-    console.log(`    steps (${small.atoms} atoms): ${stepLine(part)}`);
-    console.log(`    steps (${big.atoms} atoms): ${stepLine(whole)}`);
+    let frac = 0;
+    for (const scope of ['geometry', 'full'] as const) {
+      const part = child(smallFile, smallFile, 3, st, scope);
+      const whole = child(bigFile, smallFile, 3, st, scope);
+      const f = part.cpuSeconds / whole.cpuSeconds;
+      if (scope === 'geometry') frac = f;
+      console.log(
+        `  linear growth, ${scope} report (single-threaded V8, best of 3): ${small.atoms} atoms ${fmt(part.cpuSeconds)} CPU, ${big.atoms} atoms ${fmt(whole.cpuSeconds)} CPU = ${f.toFixed(3)} ${scope === 'geometry' ? `(bar ≤ ${BAR_LINEAR.toFixed(3)}) ${verdict(f <= BAR_LINEAR)}` : '(info)'}`,
+      );
+    }
     if (!okTime) failures++;
     if (!okRss) failures++;
     if (frac > BAR_LINEAR) failures++;

@@ -2,7 +2,7 @@
  * Child process of the engine bench: builds the full report of one file and prints its time
  * and the process's peak RSS as JSON (a fresh process, so the peak belongs to this report).
  *
- *   node bench-report-child.js <file> [<warm-up file> | -] [<runs>]
+ *   node bench-report-child.js <file> [<warm-up file> | -] [<runs>] [full | geometry]
  */
 import { readFileSync } from 'node:fs';
 import { buildReport } from '../report/build';
@@ -17,11 +17,14 @@ async function main(): Promise<void> {
   // runs of the timed report; the fastest is printed (min of repeated runs damps the noise of a
   // shared machine; peak RSS is the whole process's, so it covers every run)
   const runs = Math.max(1, Number(process.argv[4] ?? '1'));
+  // report scope: 'geometry' leaves out the verdicts and overlaps (engine I's report)
+  const scope = process.argv[5] === 'geometry' ? 'geometry' : 'full';
   if (warm !== undefined && warm !== '-')
     await buildReport(readFileSync(warm), {
       filename: warm,
       gunzip: nodeGunzip,
       sha256: nodeSha256,
+      scope,
     });
   let best: {
     seconds: number;
@@ -39,6 +42,7 @@ async function main(): Promise<void> {
       gunzip: nodeGunzip,
       sha256: nodeSha256,
       timings,
+      scope,
     });
     JSON.stringify(report);
     const seconds = (performance.now() - t0) / 1000;

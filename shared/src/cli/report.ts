@@ -1,5 +1,5 @@
 /**
- * `foldfolio report <file> [--json] [--model N]` — command logic (Node edge: reads the file,
+ * `foldfolio report <file> [--json] [--model N] [--geometry-only]` — command logic (Node edge: reads the file,
  * writes to stdout/stderr). Exit codes: 0 done, 2 bad input or usage (one-line reason).
  */
 import { readFileSync, statSync } from 'node:fs';
@@ -15,7 +15,7 @@ export interface CommandIo {
   err: (text: string) => void;
 }
 
-export const REPORT_USAGE = 'usage: foldfolio report <file> [--json] [--model N]';
+export const REPORT_USAGE = 'usage: foldfolio report <file> [--json] [--model N] [--geometry-only]';
 
 const FORMAT_NAME: Record<string, string> = { mmcif: 'PDBx/mmCIF', bcif: 'BinaryCIF', pdb: 'PDB' };
 
@@ -118,15 +118,18 @@ interface ParsedArgs {
   file: string;
   json: boolean;
   model?: number;
+  geometryOnly: boolean;
 }
 
 function parseArgs(args: string[]): ParsedArgs | string {
   let file: string | undefined;
   let json = false;
   let model: number | undefined;
+  let geometryOnly = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i];
     if (a === '--json') json = true;
+    else if (a === '--geometry-only') geometryOnly = true;
     else if (a === '--model') {
       const v = args[++i];
       if (v === undefined || !/^-?\d+$/.test(v))
@@ -142,7 +145,7 @@ function parseArgs(args: string[]): ParsedArgs | string {
     else return `only one file can be reported at a time (got ${file} and ${a}). ${REPORT_USAGE}`;
   }
   if (file === undefined) return `no file given. ${REPORT_USAGE}`;
-  return { file, json, model };
+  return { file, json, model, geometryOnly };
 }
 
 /** Run the command; returns the exit code. */
@@ -166,6 +169,7 @@ export async function runReportCommand(args: string[], io: CommandIo): Promise<n
     const report = await buildReport(bytes, {
       filename: basename(parsed.file),
       model: parsed.model,
+      scope: parsed.geometryOnly ? 'geometry' : 'full',
       gunzip: nodeGunzip,
       sha256: nodeSha256,
     });

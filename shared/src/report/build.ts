@@ -48,7 +48,21 @@ export interface ReportOptions extends ReadOptions {
   sha256?: (bytes: Uint8Array) => string;
   /** called before each per-model analysis step (progress reporting); the report is unchanged */
   onStep?: (step: string, modelIndex: number, modelCount: number) => void;
+  /**
+   * 'full' (default): every analysis. 'geometry': the coordinate geometry only — torsions,
+   * covalent geometry, peptides, chirality and Cβ, secondary structure, composition, B-factors —
+   * without the reference verdicts and the all-atom overlaps, which the report then lists as not
+   * computed (a quick look at a very large model).
+   */
+  scope?: ReportScope;
 }
+
+export type ReportScope = 'full' | 'geometry';
+
+/** Statistics a geometry-only report leaves out, with the reason it gives. */
+const GEOMETRY_ONLY_SKIPPED = ['ramachandran', 'rotamers', 'overlaps'];
+const GEOMETRY_ONLY_REASON =
+  'Not requested: this is a geometry-only report (reference verdicts and all-atom overlaps are left out); run the full report for them.';
 
 /** Everything one model's analyses share. */
 export interface ModelContext {
@@ -269,6 +283,7 @@ export function analyseModel(
   model: Model,
   timings?: Record<string, number>,
   onStep?: (step: string) => void,
+  scope: ReportScope = 'full',
 ): ModelContext {
   const t0 = timings !== undefined ? performance.now() : 0;
   const conformers = buildConformers(structure, model);
@@ -289,8 +304,17 @@ export function analyseModel(
     report,
     caOnly,
   };
+  const analyses = scope === 'geometry' ? GEOMETRY_MODEL_ANALYSES : MODEL_ANALYSES;
+  if (scope === 'geometry') {
+    const nc = report.summary.notComputed;
+    for (const statistic of GEOMETRY_ONLY_SKIPPED) {
+      const e = nc.find((n) => n.statistic === statistic);
+      if (e === undefined) nc.push({ statistic, reason: GEOMETRY_ONLY_REASON });
+      else e.reason = GEOMETRY_ONLY_REASON;
+    }
+  }
   if (timings === undefined) {
-    for (const analysis of MODEL_ANALYSES) {
+    for (const analysis of analyses) {
       onStep?.(analysis.name);
       analysis(ctx);
     }
@@ -298,7 +322,7 @@ export function analyseModel(
   }
   timings['conformers+torsions+rows'] =
     (timings['conformers+torsions+rows'] ?? 0) + performance.now() - t0;
-  for (const analysis of MODEL_ANALYSES) {
+  for (const analysis of analyses) {
     onStep?.(analysis.name);
     const t = performance.now();
     analysis(ctx);
@@ -312,7 +336,7 @@ export function analyseModel(
 export function buildReportFromStructure(
   structure: Structure,
   bytes: Uint8Array,
-  options: Pick<ReportOptions, 'model' | 'timings' | 'sha256' | 'onStep'> = {},
+  options: Pick<ReportOptions, 'model' | 'timings' | 'sha256' | 'onStep' | 'scope'> = {},
 ): Report {
   let models = structure.models;
   if (options.model !== undefined) {
@@ -325,8 +349,15 @@ export function buildReportFromStructure(
       );
     }
   }
+  const scope = options.scope ?? 'full';
   const contexts = models.map((m, i) =>
-    analyseModel(structure, m, options.timings, (step) => options.onStep?.(step, i, models.length)),
+    analyseModel(
+      structure,
+      m,
+      options.timings,
+      (step) => options.onStep?.(step, i, models.length),
+      scope,
+    ),
   );
   const report: Report = {
     schema: REPORT_SCHEMA,
@@ -345,6 +376,8 @@ export function buildReportFromStructure(
   };
   const rctx: ReportContext = { structure, bytes, report, models: contexts };
   for (const analysis of REPORT_ANALYSES) {
+    // a geometry-only report uses no reference distributions: it names none
+    if (scope === 'geometry' && analysis === referenceStep) continue;
     const t = options.timings !== undefined ? performance.now() : 0;
     analysis(rctx);
     if (options.timings !== undefined) {
