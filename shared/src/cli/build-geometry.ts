@@ -22,6 +22,7 @@ import {
 } from '../reference/sidechain-geometry';
 import { DEFAULT_REFERENCE_FOLDER, listStructureFiles } from './build-reference';
 import { nodeGunzip } from './node-gunzip';
+import { parseBuilderArgs } from './builder-args';
 
 export const DEFAULT_GEOMETRY_OUT = resolve(
   __dirname,
@@ -80,27 +81,12 @@ export async function buildGeometryFromFolder(
   return { library, json: serializeGeometryLibrary(library) };
 }
 
-/** Paths on the command line are relative to where npm was invoked (INIT_CWD), else the cwd. */
-const fromCwd = (p: string): string => resolve(process.env.INIT_CWD ?? process.cwd(), p);
-
 async function main(argv: string[]): Promise<void> {
-  let folder = DEFAULT_REFERENCE_FOLDER;
-  let out = DEFAULT_GEOMETRY_OUT;
-  let names: string[] | undefined;
-  let id: string | undefined;
-  for (let i = 0; i < argv.length; i++) {
-    const a = argv[i];
-    if (a === '--out') out = fromCwd(argv[++i]);
-    else if (a === '--list')
-      names = readFileSync(fromCwd(argv[++i]), 'utf8')
-        .split('\n')
-        .map((l) => l.trim())
-        .filter((l) => l && !l.startsWith('#'));
-    else if (a === '--id') id = argv[++i];
-    else if (a.startsWith('--'))
-      throw new Error(`Unknown option ${a}; use [folder] [--list file] [--out file] [--id id].`);
-    else folder = fromCwd(a);
-  }
+  const { folder, out, names, id } = parseBuilderArgs(
+    argv,
+    { folder: DEFAULT_REFERENCE_FOLDER, out: DEFAULT_GEOMETRY_OUT },
+    'id',
+  );
   const t0 = Date.now();
   const { library, json } = await buildGeometryFromFolder(folder, { names, id });
   writeFileSync(out, json);

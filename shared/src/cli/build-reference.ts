@@ -18,6 +18,7 @@ import {
 } from '../reference/build';
 import type { ReferenceArtefact } from '../reference/artefact';
 import { nodeGunzip } from './node-gunzip';
+import { parseBuilderArgs } from './builder-args';
 
 export const DEFAULT_REFERENCE_FOLDER = resolve(__dirname, '../../../../shared/data/reference-set');
 export const DEFAULT_REFERENCE_OUT = resolve(__dirname, '../../src/reference/data/reference.json');
@@ -73,25 +74,16 @@ export async function buildReferenceFromFolder(
 }
 
 async function main(argv: string[]): Promise<void> {
-  let folder = DEFAULT_REFERENCE_FOLDER;
-  let out = DEFAULT_REFERENCE_OUT;
-  let names: string[] | undefined;
-  let idPrefix: string | undefined;
-  for (let i = 0; i < argv.length; i++) {
-    const a = argv[i];
-    if (a === '--out') out = resolve(argv[++i]);
-    else if (a === '--list')
-      names = readFileSync(resolve(argv[++i]), 'utf8')
-        .split('\n')
-        .map((l) => l.trim())
-        .filter((l) => l && !l.startsWith('#'));
-    else if (a === '--id') idPrefix = argv[++i];
-    else if (a.startsWith('--'))
-      throw new Error(
-        `Unknown option ${a}; use [folder] [--list file] [--out file] [--id prefix].`,
-      );
-    else folder = resolve(a);
-  }
+  const {
+    folder,
+    out,
+    names,
+    id: idPrefix,
+  } = parseBuilderArgs(
+    argv,
+    { folder: DEFAULT_REFERENCE_FOLDER, out: DEFAULT_REFERENCE_OUT },
+    'prefix',
+  );
   const t0 = Date.now();
   const { artefact, json } = await buildReferenceFromFolder(folder, { names, idPrefix });
   writeFileSync(out, json);
