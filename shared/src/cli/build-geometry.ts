@@ -9,7 +9,6 @@
 import { createHash } from 'node:crypto';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { readStructure } from '../io/read';
 import { readExperimentFromBytes } from '../experiment/read';
 import {
   GEOMETRY_BUILD_PARAMETERS,
@@ -20,7 +19,8 @@ import {
   serializeGeometryLibrary,
   type SideChainGeometryLibrary,
 } from '../reference/sidechain-geometry';
-import { DEFAULT_REFERENCE_FOLDER, listStructureFiles } from './build-reference';
+import { DEFAULT_REFERENCE_FOLDER } from './build-reference';
+import { readReferenceFiles } from './reference-files';
 import { nodeGunzip } from './node-gunzip';
 import { parseBuilderArgs } from './builder-args';
 
@@ -29,7 +29,10 @@ export const DEFAULT_GEOMETRY_OUT = resolve(
   '../../src/reference/data/sidechain-geometry.json',
 );
 
-/** SHA-256 of the sorted `name<TAB>sha256(file)` list plus the build parameters. */
+/**
+ * SHA-256 of the sorted `name<TAB>sha256(file)` list plus the build parameters, without building:
+ * the tests recompute the shipped library's input hash with it, apart from the build pass.
+ */
 export function geometryInputHash(folder: string, names: string[]): string {
   const list = createHash('sha256');
   for (const name of names.slice().sort()) {
@@ -56,27 +59,17 @@ export async function buildGeometryFromFolder(
   folder: string,
   options: { names?: string[]; id?: string } = {},
 ): Promise<{ library: SideChainGeometryLibrary; json: string }> {
-  const names = (options.names ?? listStructureFiles(folder)).slice().sort();
-  if (names.length === 0)
-    throw new Error(
-      `No coordinate files (*.pdb, *.cif, optionally .gz) found in ${folder}; pass the reference-set folder as the first argument.`,
-    );
   const obs = emptyGeometryObservations();
-  for (const name of names) {
-    const buf = readFileSync(join(folder, name));
-    const bytes = new Uint8Array(buf.buffer, buf.byteOffset, buf.byteLength);
-    try {
-      const s = await readStructure(bytes, name, { gunzip: nodeGunzip });
+  const { sha256 } = await readReferenceFiles(
+    folder,
+    options.names,
+    GEOMETRY_BUILD_PARAMETERS,
+    async (name, bytes, s) => {
       // the header records only (PDB header / mmCIF without _atom_site)
       const exp = await readExperimentFromBytes(bytes, name, { gunzip: nodeGunzip });
       collectGeometry(s, statedResolution(exp.values), obs);
-    } catch (e) {
-      throw new Error(
-        `Could not read ${name} (${(e as Error).message}); remove it from the input list or fix the file.`,
-      );
-    }
-  }
-  const sha256 = geometryInputHash(folder, names);
+    },
+  );
   const library = buildGeometryLibrary(obs, options.id ?? SIDECHAIN_GEOMETRY_ID, sha256);
   return { library, json: serializeGeometryLibrary(library) };
 }

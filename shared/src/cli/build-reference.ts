@@ -5,10 +5,8 @@
  * ../shared/data/reference-set). Node edge: reads files, hashes the input list, writes JSON.
  * Deterministic: files are processed in sorted order and the artefact is serialised canonically.
  */
-import { createHash } from 'node:crypto';
-import { readFileSync, readdirSync, writeFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
-import { readStructure } from '../io/read';
+import { writeFileSync } from 'node:fs';
+import { resolve } from 'node:path';
 import {
   BUILD_PARAMETERS,
   buildArtefact,
@@ -17,13 +15,13 @@ import {
   serializeArtefact,
 } from '../reference/build';
 import type { ReferenceArtefact } from '../reference/artefact';
-import { nodeGunzip } from './node-gunzip';
+
+export { listStructureFiles } from './reference-files';
+import { readReferenceFiles } from './reference-files';
 import { parseBuilderArgs } from './builder-args';
 
 export const DEFAULT_REFERENCE_FOLDER = resolve(__dirname, '../../../../shared/data/reference-set');
 export const DEFAULT_REFERENCE_OUT = resolve(__dirname, '../../src/reference/data/reference.json');
-
-const STRUCTURE_FILE = /\.(pdb|ent|cif|bcif)(\.gz)?$/i;
 
 export interface BuildOptions {
   /** file names (relative to folder) to use; default: every coordinate file in the folder */
@@ -32,42 +30,17 @@ export interface BuildOptions {
   idPrefix?: string;
 }
 
-/** Sorted coordinate file names of a folder. */
-export function listStructureFiles(folder: string): string[] {
-  return readdirSync(folder)
-    .filter((f) => STRUCTURE_FILE.test(f))
-    .sort();
-}
-
 export async function buildReferenceFromFolder(
   folder: string,
   options: BuildOptions = {},
 ): Promise<{ artefact: ReferenceArtefact; json: string }> {
-  const names = (options.names ?? listStructureFiles(folder)).slice().sort();
-  if (names.length === 0)
-    throw new Error(
-      `No coordinate files (*.pdb, *.cif, optionally .gz) found in ${folder}; pass the reference-set folder as the first argument.`,
-    );
   const obs = emptyObservations();
-  const list = createHash('sha256');
-  for (const name of names) {
-    const bytes = readFileSync(join(folder, name));
-    list.update(`${name}\t${createHash('sha256').update(bytes).digest('hex')}\n`);
-    try {
-      const s = await readStructure(
-        new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength),
-        name,
-        { gunzip: nodeGunzip },
-      );
-      collectObservations(s, obs);
-    } catch (e) {
-      throw new Error(
-        `Could not read ${name} (${(e as Error).message}); remove it from the input list or fix the file.`,
-      );
-    }
-  }
-  list.update(JSON.stringify(BUILD_PARAMETERS));
-  const sha256 = list.digest('hex');
+  const { names, sha256 } = await readReferenceFiles(
+    folder,
+    options.names,
+    BUILD_PARAMETERS,
+    (_name, _bytes, s) => collectObservations(s, obs),
+  );
   const id = `${options.idPrefix ?? 'foldfolio-ref'}-${names.length}-${sha256.slice(0, 12)}`;
   const artefact = buildArtefact(obs, id, sha256, names.length);
   return { artefact, json: serializeArtefact(artefact) };
