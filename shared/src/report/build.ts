@@ -126,6 +126,9 @@ export const REPORT_ANALYSES: ((ctx: ReportContext) => void)[] = [
   geometryLibraryStep,
 ];
 
+/** The same for a geometry-only report: no reference distributions are used, none is named. */
+const GEOMETRY_REPORT_ANALYSES = REPORT_ANALYSES.filter((a) => a !== referenceStep);
+
 function timed<T>(timings: Record<string, number> | undefined, key: string, f: () => T): T {
   if (timings === undefined) return f();
   const t = performance.now();
@@ -375,9 +378,7 @@ export function buildReportFromStructure(
     cautions: [],
   };
   const rctx: ReportContext = { structure, bytes, report, models: contexts };
-  for (const analysis of REPORT_ANALYSES) {
-    // a geometry-only report uses no reference distributions: it names none
-    if (scope === 'geometry' && analysis === referenceStep) continue;
+  for (const analysis of scope === 'geometry' ? GEOMETRY_REPORT_ANALYSES : REPORT_ANALYSES) {
     const t = options.timings !== undefined ? performance.now() : 0;
     analysis(rctx);
     if (options.timings !== undefined) {
